@@ -1,0 +1,2 @@
+// Package flowerfind proposes a flower map from a background image.
+package flowerfind

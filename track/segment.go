@@ -1,0 +1,537 @@
+package track
+
+import (
+	"fmt"
+	"image"
+	"image/color"
+	"math"
+	"unsafe"
+
+	"gocv.io/x/gocv"
+)
+
+// segParams are the per-clip parameters of the segmentation, derived from
+// Settings and the clip (see Settings for meaning and defaults).
+type segParams struct {
+	factor         int     // integer reduction from the frame to the working image
+	workW, workH   int     // working image size, px
+	fps            float64 // nominal frame rate, frames/s
+	beeLenPX       float64 // expected bee length in the frame, px
+	bgTauS, fgTauS float64 // time constants of the selective running average, s
+	warmS          float64 // start-up period with a cumulative average, s
+	thresh2        float64 // ThresholdSigma^2
+	varFloor       float64 // floor of the per-pixel variance, grey levels^2
+	varInit        float64 // variance of a fresh background, grey levels^2
+	varClamp       float64 // largest squared deviation one frame adds to the variance, grey levels^2
+	minContrast    float64 // grey levels
+	minAreaWork    float64 // area gates at the working scale, px^2
+	maxAreaWork    float64
+	maxLenPX       float64 // longest ellipse major axis accepted, px of the frame
+	maxElong       float64 // largest major/minor ratio accepted
+	shadowRatio    float64 // pixels darker than this fraction of the background are bee body
+	minBodyPX      float64 // least number of body pixels of a detection, px of the frame
+	disturbedFrac  float64 // fraction of the analysed area above which a frame is disturbed
+	resetS         float64 // consecutive disturbed time after which the background restarts, s
+	stabilize      bool
+	maxShiftWorkPX float64 // largest accepted shake at the working scale, px
+	colourEvery    int     // the colour background is updated every this many frames
+}
+
+// protectZone is a disc of the frame, px, in which the background is not
+// learned in the current frame: where a confirmed track is or is expected.
+type protectZone struct {
+	XPX, YPX, RadiusPX float64
+}
+
+// segmenter holds the background model of one clip and finds dark blobs
+// in each frame. All images but the frame itself are at the working scale
+// and are allocated once.
+type segmenter struct {
+	p              segParams
+	frameW, frameH int
+	crop           image.Rectangle // part of the frame reduced to the working image (a multiple of factor)
+
+	n         int     // frames seen since the model (re)started
+	frames    int     // frames seen in total
+	lastT     float64 // time of the previous frame, s
+	gain      float64 // global gain of the current frame
+	shiftX    float64 // shake of the current frame, working px (image = background moved by +shift)
+	shiftY    float64
+	skipLearn bool    // the current frame is not learned (disturbed)
+	distRunS  float64 // length of the current run of disturbed frames, s
+	dt        float64 // time step of the current frame, s
+	haveSmall bool    // small holds the current frame in colour
+
+	// counters for the report
+	disturbed, resets int
+
+	greyFull       gocv.Mat // grey frame, full size (8U)
+	grey           gocv.Mat // grey working image (8U)
+	x, xa          gocv.Mat // working image as float, and the shake-aligned copy (32F)
+	mu, vr         gocv.Mat // background mean and variance (32F)
+	d, d2, thr2    gocv.Mat // mu - x, its square, ThresholdSigma^2 var (32F)
+	zero           gocv.Mat // zeros (32F)
+	anyFg, darkFg  gocv.Mat // |d| > t, and d > t (8U)
+	det            gocv.Mat // darkFg after closing (8U)
+	tmp            gocv.Mat // scratch (8U)
+	lmask, protect gocv.Mat // masks (8U)
+	notDark        gocv.Mat // where the gain is measured (8U)
+	roi            gocv.Mat // analysed area (8U), empty = all
+	roiCount       int
+	labels, stats  gocv.Mat
+	cents          gocv.Mat
+	kernel         gocv.Mat
+	hann           gocv.Mat // window for phase correlation (32F)
+	warpM          gocv.Mat // 2x3 translation (64F)
+	small          gocv.Mat // colour working image (8UC3)
+	muBGR          gocv.Mat // colour background (32FC3)
+	colourStarted  bool
+}
+
+func newSegmenter(p segParams, frameW, frameH int, roi gocv.Mat) *segmenter {
+	k := p.factor
+	s := &segmenter{
+		p: p, frameW: frameW, frameH: frameH,
+		crop: image.Rect(0, 0, p.workW*k, p.workH*k),
+		gain: 1,
+	}
+	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.d, &s.d2, &s.thr2, &s.anyFg, &s.darkFg, &s.det, &s.tmp, &s.lmask, &s.labels, &s.stats, &s.cents, &s.small, &s.muBGR} {
+		*m = gocv.NewMat()
+	}
+	s.mu = gocv.NewMatWithSize(p.workH, p.workW, gocv.MatTypeCV32F)
+	s.vr = gocv.NewMatWithSize(p.workH, p.workW, gocv.MatTypeCV32F)
+	s.zero = gocv.NewMatWithSizeFromScalar(gocv.NewScalar(0, 0, 0, 0), p.workH, p.workW, gocv.MatTypeCV32F)
+	s.protect = gocv.NewMatWithSize(p.workH, p.workW, gocv.MatTypeCV8U)
+	s.notDark = gocv.NewMatWithSizeFromScalar(gocv.NewScalar(255, 0, 0, 0), p.workH, p.workW, gocv.MatTypeCV8U)
+	s.kernel = gocv.GetStructuringElement(gocv.MorphRect, image.Pt(3, 3))
+	s.warpM = gocv.NewMatWithSize(2, 3, gocv.MatTypeCV64F)
+	if roi.Empty() {
+		s.roi = gocv.NewMat()
+		s.roiCount = p.workW * p.workH
+	} else {
+		s.roi = roi.Clone()
+		s.roiCount = gocv.CountNonZero(s.roi)
+		gocv.BitwiseAnd(s.notDark, s.roi, &s.notDark)
+	}
+	if p.stabilize {
+		s.hann = hanningWindow(p.workW, p.workH)
+	} else {
+		s.hann = gocv.NewMat()
+	}
+	return s
+}
+
+func (s *segmenter) close() {
+	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.mu, &s.vr, &s.d, &s.d2, &s.thr2, &s.zero, &s.anyFg, &s.darkFg, &s.det, &s.tmp, &s.lmask, &s.protect, &s.notDark, &s.roi, &s.labels, &s.stats, &s.cents, &s.kernel, &s.hann, &s.warpM, &s.small, &s.muBGR} {
+		m.Close()
+	}
+}
+
+// hanningWindow returns the w x h raised-cosine window used to taper the
+// images before phase correlation.
+func hanningWindow(w, h int) gocv.Mat {
+	hw := func(n int) []float64 {
+		v := make([]float64, n)
+		for i := range v {
+			if n > 1 {
+				v[i] = 0.5 * (1 - math.Cos(2*math.Pi*float64(i)/float64(n-1)))
+			}
+		}
+		return v
+	}
+	wx, wy := hw(w), hw(h)
+	m := gocv.NewMatWithSize(h, w, gocv.MatTypeCV32F)
+	data, _ := m.DataPtrFloat32()
+	for y := 0; y < h; y++ {
+		for x := 0; x < w; x++ {
+			data[y*w+x] = float32(wy[y] * wx[x])
+		}
+	}
+	return m
+}
+
+// alpha is the weight of the new frame in an exponential running average
+// with time constant tauS after a step of dtS: 1 - exp(-dt/tau). Using the
+// true time step keeps the model's memory in seconds for variable frame
+// rates.
+func alpha(dtS, tauS float64) float64 { return 1 - math.Exp(-dtS/tauS) }
+
+// detect segments one frame (8-bit BGR, full size) at time tS and returns
+// the bee candidates. The model is not updated; call learn next.
+func (s *segmenter) detect(frame gocv.Mat, index int, tS float64) []Detection {
+	if frame.Cols() != s.frameW || frame.Rows() != s.frameH || frame.Type() != gocv.MatTypeCV8UC3 {
+		panic(fmt.Sprintf("track: frame %d is %dx%d %v, want %dx%d CV8UC3", index, frame.Cols(), frame.Rows(), frame.Type(), s.frameW, s.frameH))
+	}
+	p := s.p
+	gocv.CvtColor(frame, &s.greyFull, gocv.ColorBGRToGray)
+	if s.crop.Dx() == s.frameW && s.crop.Dy() == s.frameH {
+		gocv.Resize(s.greyFull, &s.grey, image.Pt(p.workW, p.workH), 0, 0, gocv.InterpolationArea)
+	} else {
+		r := s.greyFull.Region(s.crop)
+		gocv.Resize(r, &s.grey, image.Pt(p.workW, p.workH), 0, 0, gocv.InterpolationArea)
+		r.Close()
+	}
+	s.grey.ConvertTo(&s.x, gocv.MatTypeCV32F)
+	dt := 1 / p.fps
+	if s.frames > 0 && tS > s.lastT {
+		dt = tS - s.lastT
+	}
+	s.lastT = tS
+	s.frames++
+	s.skipLearn = false
+
+	if s.n == 0 {
+		s.restart(frame)
+		return nil
+	}
+	if p.stabilize {
+		s.align()
+	}
+	// Global gain: the frame is scaled so that its mean over the pixels
+	// that were not dark foreground in the previous frame matches the
+	// background's (illumination drift, flicker, automatic exposure).
+	mb := s.mu.MeanWithMask(s.notDark).Val1
+	mx := s.x.MeanWithMask(s.notDark).Val1
+	s.gain = 1
+	if mx > 1 && mb > 1 {
+		s.gain = math.Min(2, math.Max(0.5, mb/mx))
+		s.x.MultiplyFloat(float32(s.gain))
+	}
+	// Signed difference: the bee is darker than what it covers, so only
+	// d = mu - x > 0 is foreground. Bright changes (the ground a bee
+	// leaves behind when it was part of the first frame, glints, petals
+	// lit by the sun) are ignored for detection.
+	gocv.Subtract(s.mu, s.x, &s.d)
+	gocv.Multiply(s.d, s.d, &s.d2)
+	s.vr.ConvertToWithParams(&s.thr2, gocv.MatTypeCV32F, float32(p.thresh2), 0)
+	gocv.Compare(s.d2, s.thr2, &s.anyFg, gocv.CompareGT)
+	gocv.Compare(s.d, s.zero, &s.darkFg, gocv.CompareGT)
+	gocv.BitwiseAnd(s.darkFg, s.anyFg, &s.darkFg)
+	if !s.roi.Empty() {
+		gocv.BitwiseAnd(s.anyFg, s.roi, &s.anyFg)
+		gocv.BitwiseAnd(s.darkFg, s.roi, &s.darkFg)
+	}
+	// A frame that changed over a large part of the picture (camera
+	// bumped, exposure jump, a corrupt frame) says nothing about bees and
+	// must not be learned. If it lasts, the scene itself changed: restart.
+	frac := float64(gocv.CountNonZero(s.anyFg)) / float64(max(1, s.roiCount))
+	if s.n > 1 && frac > p.disturbedFrac {
+		s.disturbed++
+		s.skipLearn = true
+		s.distRunS += dt
+		if s.distRunS >= p.resetS {
+			s.resets++
+			s.restart(frame)
+		}
+		return nil
+	}
+	s.distRunS = 0
+	s.dt = dt
+	s.haveSmall = false
+	if s.frames%s.p.colourEvery == 0 {
+		s.colour(frame)
+	}
+	return s.blobs(index)
+}
+
+// align estimates the camera shake of the working image against the
+// background by phase correlation (Kuglin & Hines 1975) and translates
+// the working image back onto the background.
+func (s *segmenter) align() {
+	sh, resp := gocv.PhaseCorrelate(s.mu, s.x, s.hann)
+	dx, dy := float64(sh.X), float64(sh.Y)
+	if !finite(dx) || !finite(dy) || math.Hypot(dx, dy) > s.p.maxShiftWorkPX || resp < 0.02 {
+		dx, dy = s.shiftX, s.shiftY // unreliable: keep the last estimate
+	}
+	s.shiftX, s.shiftY = dx, dy
+	// xa(p) = x(p + shift): forward map p -> p - shift.
+	s.warpM.SetDoubleAt(0, 0, 1)
+	s.warpM.SetDoubleAt(0, 1, 0)
+	s.warpM.SetDoubleAt(0, 2, -dx)
+	s.warpM.SetDoubleAt(1, 0, 0)
+	s.warpM.SetDoubleAt(1, 1, 1)
+	s.warpM.SetDoubleAt(1, 2, -dy)
+	gocv.WarpAffineWithParams(s.x, &s.xa, s.warpM, image.Pt(s.p.workW, s.p.workH), gocv.InterpolationLinear, gocv.BorderReplicate, color.RGBA{})
+	s.x, s.xa = s.xa, s.x
+}
+
+// restart makes the current working image the background and starts the
+// cumulative start-up average again.
+func (s *segmenter) restart(frame gocv.Mat) {
+	s.x.CopyTo(&s.mu)
+	s.vr.SetTo(gocv.NewScalar(s.p.varInit, 0, 0, 0))
+	s.n = 1
+	s.distRunS = 0
+	s.shiftX, s.shiftY = 0, 0
+	s.skipLearn = true
+	s.notDark.SetTo(gocv.NewScalar(255, 0, 0, 0))
+	if !s.roi.Empty() {
+		gocv.BitwiseAnd(s.notDark, s.roi, &s.notDark)
+	}
+	s.colour(frame)
+	s.small.ConvertTo(&s.muBGR, gocv.MatTypeCV32FC3)
+	s.haveSmall = false
+}
+
+// colour reduces the frame to the working scale in colour, for the
+// colour background shown in plots.
+func (s *segmenter) colour(frame gocv.Mat) {
+	r := frame.Region(s.crop)
+	gocv.Resize(r, &s.small, image.Pt(s.p.workW, s.p.workH), 0, 0, gocv.InterpolationArea)
+	r.Close()
+	s.haveSmall = true
+}
+
+// learn updates the background with the current frame: the selective
+// running Gaussian. zones are discs (frame px) where confirmed bees are
+// or are expected; they are not learned at all.
+func (s *segmenter) learn(zones []protectZone) {
+	if s.skipLearn {
+		return
+	}
+	p := s.p
+	k := float64(p.factor)
+	s.protect.SetTo(gocv.NewScalar(0, 0, 0, 0))
+	for _, z := range zones {
+		cx := (z.XPX-(k-1)/2)/k - s.shiftX
+		cy := (z.YPX-(k-1)/2)/k - s.shiftY
+		r := int(math.Ceil(z.RadiusPX / k))
+		if !finite(cx) || !finite(cy) || cx < -float64(r) || cy < -float64(r) || cx > float64(p.workW+r) || cy > float64(p.workH+r) {
+			continue
+		}
+		gocv.Circle(&s.protect, image.Pt(int(math.Round(cx)), int(math.Round(cy))), r, color.RGBA{255, 255, 255, 0}, -1)
+	}
+	aBG := alpha(s.dt, p.bgTauS)
+	aFG := alpha(s.dt, p.fgTauS)
+	if float64(s.n) < p.warmS*p.fps {
+		// Start-up: cumulative average of the frames so far, so that the
+		// first frame (possibly with a bee in it) is soon outweighed.
+		c := 1 / float64(s.n+1)
+		aBG = math.Max(aBG, c)
+		aFG = math.Max(aFG, c)
+	}
+	// Variance first, from the deviation against the mean before the
+	// update: var <- (1-a) var + a min(d^2, clamp), everywhere but under
+	// bees. Foreground pixels count too, so that pixels that keep
+	// changing (swaying grass) grow a large variance and stop being
+	// foreground; the clamp bounds what one passing bee adds.
+	gocv.BitwiseNot(s.protect, &s.lmask)
+	gocv.Threshold(s.d2, &s.d2, float32(p.varClamp), 0, gocv.ThresholdTrunc)
+	gocv.AccumulatedWeightedWithMask(s.d2, &s.vr, aBG, s.lmask)
+	s.vr.SubtractFloat(float32(p.varFloor))
+	gocv.Threshold(s.vr, &s.vr, 0, 0, gocv.ThresholdToZero)
+	s.vr.AddFloat(float32(p.varFloor))
+	// Mean: dark foreground that is not under a confirmed bee at the slow
+	// rate aFG (an object that stops and stays is absorbed in about
+	// fgTauS); background pixels at aBG; pixels under confirmed bees never.
+	gocv.BitwiseAnd(s.darkFg, s.lmask, &s.tmp)
+	gocv.AccumulatedWeightedWithMask(s.x, &s.mu, aFG, s.tmp)
+	gocv.BitwiseOr(s.darkFg, s.protect, &s.tmp)
+	gocv.BitwiseNot(s.tmp, &s.lmask)
+	gocv.AccumulatedWeightedWithMask(s.x, &s.mu, aBG, s.lmask)
+	// The next frame's gain is measured where this one was background.
+	if s.roi.Empty() {
+		s.lmask.CopyTo(&s.notDark)
+	} else {
+		gocv.BitwiseAnd(s.lmask, s.roi, &s.notDark)
+	}
+	if s.haveSmall {
+		a := math.Min(1, alpha(s.dt*float64(p.colourEvery), p.bgTauS))
+		if float64(s.n) < p.warmS*p.fps {
+			a = math.Max(a, 1/float64(s.n+1))
+		}
+		gocv.AccumulatedWeightedWithMask(s.small, &s.muBGR, a, s.lmask)
+		s.haveSmall = false
+	}
+	s.n++
+}
+
+// blobs labels the dark foreground of the current frame, applies the area
+// gate at the working scale and measures the survivors at full size.
+func (s *segmenter) blobs(index int) []Detection {
+	p := s.p
+	gocv.MorphologyEx(s.darkFg, &s.det, gocv.MorphClose, s.kernel)
+	n := gocv.ConnectedComponentsWithStats(s.det, &s.labels, &s.stats, &s.cents)
+	if n <= 1 {
+		return nil
+	}
+	st := int32s(s.stats)
+	c := &refineCtx{
+		labels: int32s(s.labels),
+		mu:     float32s(s.mu),
+		vr:     float32s(s.vr),
+	}
+	c.grey, _ = s.greyFull.DataPtrUint8()
+	var out []Detection
+	for i := 1; i < n; i++ {
+		r := st[i*5 : i*5+5]
+		area := float64(r[4])
+		if area < p.minAreaWork || area > p.maxAreaWork {
+			continue
+		}
+		box := image.Rect(int(r[0]), int(r[1]), int(r[0]+r[2]), int(r[1]+r[3]))
+		if d, ok := s.refine(c, int32(i), box, index); ok {
+			out = append(out, d)
+		}
+	}
+	return out
+}
+
+// refineCtx holds raw views of the images the refinement reads.
+type refineCtx struct {
+	labels []int32   // working scale
+	mu, vr []float32 // working scale
+	grey   []uint8   // full size
+}
+
+// refine measures blob id (bounding box box, working px) on the full-size
+// grey frame, in a window around it. A pixel of the window belongs to the
+// blob if its working-scale cell or one of the 8 around it has label id.
+// Its background b is bilinearly interpolated from the working scale, and
+// its brightness I is scaled by the frame's gain.
+//
+// Foreground pixels, b - I > t with t = max(ThresholdSigma sqrt(var),
+// MinContrastGrey), make the area and the bounding box.
+//
+// The position and shape come from the bee's body only. A shadow dims the
+// ground by a fraction, I >= rho b, where a bee's body is dark whatever it
+// covers (the lower bound of the brightness-ratio test for shadow pixels of
+// Cucchiara et al. 2003, rho = ShadowRatio). So every pixel enters the
+// moments with weight w = max(0, rho b - I), how much darker it is than any
+// shadow could make it:
+//
+//	xc = sum w x / sum w,  yc = sum w y / sum w,
+//	C  = sum w (p - pc)(p - pc)' / sum w,
+//
+// an intensity-weighted centroid that a shadow or soft blob edge does not
+// pull aside. The fitted ellipse has full axes 4 sqrt(lambda_1,2) of C
+// (exact for a uniform ellipse) and orientation 0.5 atan2(2 C_xy, C_xx -
+// C_yy). A blob with fewer than minBodyPX pixels with w > 0 is a shadow or
+// a dimmed patch, not a bee, and is dropped.
+func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle, index int) (Detection, bool) {
+	p := s.p
+	k := p.factor
+	kf := float64(k)
+	half := (kf - 1) / 2
+	sx, sy := s.shiftX*kf, s.shiftY*kf
+	x0 := max(0, int(math.Floor(float64(box.Min.X*k)+sx))-k)
+	y0 := max(0, int(math.Floor(float64(box.Min.Y*k)+sy))-k)
+	x1 := min(s.frameW, int(math.Ceil(float64(box.Max.X*k)+sx))+k)
+	y1 := min(s.frameH, int(math.Ceil(float64(box.Max.Y*k)+sy))+k)
+	W, H := p.workW, p.workH
+	member := func(cx, cy int) bool {
+		for yy := max(0, cy-1); yy <= min(H-1, cy+1); yy++ {
+			row := c.labels[yy*W:]
+			for xx := max(0, cx-1); xx <= min(W-1, cx+1); xx++ {
+				if row[xx] == id {
+					return true
+				}
+			}
+		}
+		return false
+	}
+	bilin := func(img []float32, u, v float64) float64 {
+		u = math.Min(math.Max(u, 0), float64(W-1))
+		v = math.Min(math.Max(v, 0), float64(H-1))
+		iu, iv := int(u), int(v)
+		fu, fv := u-float64(iu), v-float64(iv)
+		iu1, iv1 := min(iu+1, W-1), min(iv+1, H-1)
+		a := float64(img[iv*W+iu])*(1-fu) + float64(img[iv*W+iu1])*fu
+		b := float64(img[iv1*W+iu])*(1-fu) + float64(img[iv1*W+iu1])*fu
+		return a*(1-fv) + b*fv
+	}
+	var m0, m1x, m1y, m2xx, m2xy, m2yy float64
+	area, body := 0, 0
+	bx0, by0, bx1, by1 := x1, y1, x0, y0
+	g := s.gain
+	rho := p.shadowRatio
+	for y := y0; y < y1; y++ {
+		cy := int(math.Floor((float64(y) - sy) / kf))
+		v := (float64(y) - sy - half) / kf
+		fy := float64(y - y0)
+		for x := x0; x < x1; x++ {
+			cx := int(math.Floor((float64(x) - sx) / kf))
+			if !member(cx, cy) {
+				continue
+			}
+			u := (float64(x) - sx - half) / kf
+			b := bilin(c.mu, u, v)
+			I := g * float64(c.grey[y*s.frameW+x])
+			if dd := b - I; dd > math.Max(math.Sqrt(p.thresh2*bilin(c.vr, u, v)), p.minContrast) {
+				area++
+				bx0, by0 = min(bx0, x), min(by0, y)
+				bx1, by1 = max(bx1, x+1), max(by1, y+1)
+			}
+			w := rho*b - I
+			if w <= 0 {
+				continue
+			}
+			body++
+			fx := float64(x - x0)
+			m0 += w
+			m1x += w * fx
+			m1y += w * fy
+			m2xx += w * fx * fx
+			m2xy += w * fx * fy
+			m2yy += w * fy * fy
+		}
+	}
+	if m0 <= 0 || area == 0 || float64(body) < p.minBodyPX {
+		return Detection{}, false
+	}
+	xc, yc := m1x/m0, m1y/m0
+	cxx := m2xx/m0 - xc*xc
+	cxy := m2xy/m0 - xc*yc
+	cyy := m2yy/m0 - yc*yc
+	tr, det := cxx+cyy, cxx*cyy-cxy*cxy
+	disc := math.Sqrt(math.Max(0, tr*tr/4-det))
+	l1, l2 := tr/2+disc, math.Max(0, tr/2-disc)
+	major, minor := 4*math.Sqrt(l1), 4*math.Sqrt(l2)
+	// Orientation in image coordinates (y down) is 0.5 atan2(2cxy, cxx-cyy),
+	// clockwise on screen; Detection wants counter-clockwise on screen.
+	ang := -0.5 * math.Atan2(2*cxy, cxx-cyy) * 180 / math.Pi
+	ang = math.Mod(ang+360, 180)
+	if major > p.maxLenPX || minor == 0 || major/minor > p.maxElong {
+		return Detection{}, false
+	}
+	return Detection{
+		Frame: index,
+		XPX:   float64(x0) + xc, YPX: float64(y0) + yc,
+		AreaPX:  float64(area),
+		MajorPX: major, MinorPX: minor, AngleDeg: ang,
+		Box: image.Rect(bx0, by0, bx1, by1),
+	}, true
+}
+
+// background writes the colour background model, enlarged to the frame
+// size, to dst (8-bit BGR).
+func (s *segmenter) background(dst *gocv.Mat) {
+	if s.muBGR.Empty() {
+		z := gocv.NewMatWithSizeFromScalar(gocv.NewScalar(0, 0, 0, 0), s.frameH, s.frameW, gocv.MatTypeCV8UC3)
+		z.CopyTo(dst)
+		z.Close()
+		return
+	}
+	tmp := gocv.NewMat()
+	defer tmp.Close()
+	s.muBGR.ConvertTo(&tmp, gocv.MatTypeCV8UC3)
+	gocv.Resize(tmp, dst, image.Pt(s.frameW, s.frameH), 0, 0, gocv.InterpolationLinear)
+}
+
+// int32s and float32s view the data of a continuous Mat without copying;
+// the views are valid until the Mat is reallocated or closed.
+func int32s(m gocv.Mat) []int32 {
+	b, err := m.DataPtrUint8()
+	if err != nil || len(b) < 4 {
+		return nil
+	}
+	return unsafe.Slice((*int32)(unsafe.Pointer(&b[0])), len(b)/4)
+}
+
+func float32s(m gocv.Mat) []float32 {
+	f, err := m.DataPtrFloat32()
+	if err != nil {
+		panic("track: " + err.Error())
+	}
+	return f
+}

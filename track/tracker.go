@@ -1,0 +1,231 @@
+package track
+
+import (
+	"fmt"
+	"image"
+	"math"
+
+	"gocv.io/x/gocv"
+
+	"flitlog/track/link"
+)
+
+// Tracker turns the frames of one clip into bee tracks: segmentation
+// (segment.go) and online linking (link.Linker), with the linker's
+// confirmed tracks fed back to keep bees out of the background model.
+// Call Step for every frame in order, then Finish once, then Close.
+type Tracker struct {
+	s      Settings // with defaults
+	info   VideoInfo
+	p      segParams
+	seg    *segmenter
+	lk     *link.Linker
+	last   int
+	begun  bool
+	done   bool
+	dets   []Detection
+	zones  []protectZone
+	travel map[int]*travelled // by provisional track ID
+	stats  Stats
+	closed bool
+}
+
+// travelled records where a confirmed track started and whether it has
+// since been seen ProtectAfterBL away from there.
+type travelled struct {
+	x0, y0 float64
+	far    bool
+	frame  int // last frame seen
+}
+
+// Stats count what the Tracker saw, for the run summary.
+type Stats struct {
+	Frames            int     // frames stepped
+	Detections        int     // detections passed to the linker
+	DisturbedFrames   int     // frames skipped as disturbed (see Settings.DisturbedFrac)
+	BackgroundResets  int     // restarts of the background after a long disturbance
+	WorkFactor        int     // the frame is reduced by this factor for detection
+	BodyLengthPX      float64 // expected bee length, px
+	MeanShiftPX       float64 // mean magnitude of the estimated camera shake, px (0 without Stabilize)
+	shiftSum          float64
+	shiftN            int
+}
+
+// NewTracker prepares a Tracker for a clip described by info. It returns
+// an error naming the setting or file at fault when the settings are out
+// of range, the ROI mask cannot be read, or the frame is too small.
+func NewTracker(s Settings, info VideoInfo) (t *Tracker, err error) {
+	if err := s.Validate(); err != nil {
+		return nil, err
+	}
+	s = s.withDefaults()
+	if info.WidthPX < 16 || info.HeightPX < 16 {
+		return nil, fmt.Errorf("video %s: frame %dx%d px is too small to track in", info.Path, info.WidthPX, info.HeightPX)
+	}
+	if !(info.FPS > 0) || math.IsInf(info.FPS, 0) {
+		return nil, fmt.Errorf("video %s: frame rate %g: give the capture rate with --fps", info.Path, info.FPS)
+	}
+	p := s.segParams(info.WidthPX, info.HeightPX, info.FPS)
+	roi := gocv.NewMat()
+	defer roi.Close()
+	if s.ROIMaskPath != "" {
+		if err := loadROI(s.ROIMaskPath, p, info, &roi); err != nil {
+			return nil, err
+		}
+	}
+	ls := s.Link
+	ls.FPS = info.FPS
+	ls.BodyLengthPX = p.beeLenPX
+	ls.BoundsPX = image.Rect(0, 0, info.WidthPX, info.HeightPX)
+	var lk *link.Linker
+	func() {
+		defer func() {
+			if r := recover(); r != nil {
+				err = fmt.Errorf("track link settings: %v", r)
+			}
+		}()
+		lk = link.NewLinker(ls)
+	}()
+	if err != nil {
+		return nil, err
+	}
+	t = &Tracker{s: s, info: info, p: p, lk: lk, travel: map[int]*travelled{}}
+	t.seg = newSegmenter(p, info.WidthPX, info.HeightPX, roi)
+	t.stats.WorkFactor = p.factor
+	t.stats.BodyLengthPX = p.beeLenPX
+	return t, nil
+}
+
+// loadROI reads the region-of-interest image, scales it to the working
+// image and thresholds it at mid grey.
+func loadROI(path string, p segParams, info VideoInfo, dst *gocv.Mat) error {
+	img := gocv.IMRead(path, gocv.IMReadGrayScale)
+	defer img.Close()
+	if img.Empty() {
+		return fmt.Errorf("roi mask %s: cannot read it as an image: give a PNG or JPEG, white = analyse", path)
+	}
+	ar := float64(img.Cols()) / float64(img.Rows())
+	fr := float64(info.WidthPX) / float64(info.HeightPX)
+	if math.Abs(ar/fr-1) > 0.02 {
+		return fmt.Errorf("roi mask %s: %dx%d px does not have the shape of the %dx%d video: draw it on a frame of the clip", path, img.Cols(), img.Rows(), info.WidthPX, info.HeightPX)
+	}
+	k := p.factor
+	full := gocv.NewMat()
+	defer full.Close()
+	gocv.Resize(img, &full, image.Pt(info.WidthPX, info.HeightPX), 0, 0, gocv.InterpolationLinear)
+	crop := full.Region(image.Rect(0, 0, p.workW*k, p.workH*k))
+	defer crop.Close()
+	gocv.Resize(crop, dst, image.Pt(p.workW, p.workH), 0, 0, gocv.InterpolationArea)
+	gocv.Threshold(*dst, dst, 127, 255, gocv.ThresholdBinary)
+	if gocv.CountNonZero(*dst) == 0 {
+		return fmt.Errorf("roi mask %s: no white area: white marks the part of the frame to analyse", path)
+	}
+	return nil
+}
+
+// Step processes one frame (8-bit BGR of the clip's size). Frames must
+// come in increasing Index order; a skipped index counts as a frame
+// without detections.
+func (t *Tracker) Step(fi FrameInfo, frame gocv.Mat) error {
+	if t.done || t.closed {
+		panic("track: Step after Finish or Close")
+	}
+	if frame.Cols() != t.info.WidthPX || frame.Rows() != t.info.HeightPX || frame.Type() != gocv.MatTypeCV8UC3 {
+		return fmt.Errorf("video %s: frame %d is %dx%d %v, the clip is %dx%d 8-bit BGR", t.info.Path, fi.Index, frame.Cols(), frame.Rows(), frame.Type(), t.info.WidthPX, t.info.HeightPX)
+	}
+	if fi.Index < 0 || (t.begun && fi.Index <= t.last) {
+		return fmt.Errorf("video %s: frame %d comes after frame %d", t.info.Path, fi.Index, t.last)
+	}
+	t.begun = true
+	t.last = fi.Index
+	preds := t.lk.Predicted()
+	t.dets = t.seg.detect(frame, fi.Index, fi.TimeS)
+	asg := t.lk.Step(fi.Index, t.dets)
+
+	bl := t.p.beeLenPX
+	r0 := t.s.ProtectBL * bl
+	far2 := (t.s.ProtectAfterBL * bl) * (t.s.ProtectAfterBL * bl)
+	t.zones = t.zones[:0]
+	for _, a := range asg {
+		d := t.dets[a.DetIndex]
+		tv := t.travel[a.TrackID]
+		if tv == nil {
+			tv = &travelled{x0: d.XPX, y0: d.YPX}
+			t.travel[a.TrackID] = tv
+		}
+		tv.frame = fi.Index
+		if dx, dy := d.XPX-tv.x0, d.YPX-tv.y0; dx*dx+dy*dy >= far2 {
+			tv.far = true
+		}
+		if tv.far {
+			t.zones = append(t.zones, protectZone{d.XPX, d.YPX, math.Max(r0, 0.75*d.MajorPX)})
+		}
+	}
+	for _, p := range preds {
+		if tv := t.travel[p.TrackID]; p.Frame == fi.Index && tv != nil && tv.far {
+			t.zones = append(t.zones, protectZone{p.XPX, p.YPX, r0})
+			tv.frame = fi.Index
+		}
+	}
+	t.seg.learn(t.zones)
+	if fi.Index%256 == 0 {
+		// Forget tracks that ended long ago.
+		for id, tv := range t.travel {
+			if fi.Index-tv.frame > 256 {
+				delete(t.travel, id)
+			}
+		}
+	}
+
+	t.stats.Frames++
+	t.stats.Detections += len(t.dets)
+	if t.p.stabilize {
+		t.stats.shiftSum += math.Hypot(t.seg.shiftX, t.seg.shiftY) * float64(t.p.factor)
+		t.stats.shiftN++
+	}
+	return nil
+}
+
+// Detections returns the detections of the latest Step (valid until the
+// next Step).
+func (t *Tracker) Detections() []Detection { return t.dets }
+
+// Finish ends linking (gap closing, removal of short fragments) and
+// returns the tracks, IDs 1..n in order of their first frame.
+func (t *Tracker) Finish() []Track {
+	if t.done || t.closed {
+		panic("track: Finish called twice or after Close")
+	}
+	t.done = true
+	return t.lk.Finish()
+}
+
+// Stats returns the counters so far.
+func (t *Tracker) Stats() Stats {
+	st := t.stats
+	st.DisturbedFrames = t.seg.disturbed
+	st.BackgroundResets = t.seg.resets
+	if st.shiftN > 0 {
+		st.MeanShiftPX = st.shiftSum / float64(st.shiftN)
+	}
+	return st
+}
+
+// Background writes the current colour background model, scaled to the
+// frame size, to dst as 8-bit BGR (for plots). Before the first frame it
+// is black.
+func (t *Tracker) Background(dst *gocv.Mat) {
+	if t.closed {
+		panic("track: Background after Close")
+	}
+	t.seg.background(dst)
+}
+
+// Close releases the OpenCV images. It is safe to call more than once.
+func (t *Tracker) Close() {
+	if t.closed {
+		return
+	}
+	t.closed = true
+	t.seg.close()
+}
