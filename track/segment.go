@@ -27,7 +27,11 @@ type segParams struct {
 	minAreaWork    float64 // area gates at the working scale, px^2
 	maxAreaWork    float64
 	maxLenPX       float64 // longest ellipse major axis accepted, px of the frame
+	minWidthPX     float64 // shortest ellipse minor axis accepted, px of the frame
+	minAreaPX      float64 // least foreground area of a detection, px of the frame
 	maxElong       float64 // largest major/minor ratio accepted
+	actTauS        float64 // time constant of the foreground frequency, s
+	maxActivity    float64 // foreground frequency above which a pixel is unstable
 	shadowRatio    float64 // pixels darker than this fraction of the background are bee body
 	minBodyPX      float64 // least number of body pixels of a detection, px of the frame
 	disturbedFrac  float64 // fraction of the analysed area above which a frame is disturbed
@@ -76,12 +80,19 @@ type segmenter struct {
 	tmp            gocv.Mat // scratch (8U)
 	lmask, protect gocv.Mat // masks (8U)
 	notDark        gocv.Mat // where the gain is measured (8U)
+	act            gocv.Mat // running frequency of dark foreground, 0..255 (32F)
+	unstable       gocv.Mat // act above MaxActivity and not protected (8U)
+	actTmp         gocv.Mat // scratch (32F)
 	roi            gocv.Mat // analysed area (8U), empty = all
 	roiCount       int
 	labels, stats  gocv.Mat
 	cents          gocv.Mat
 	kernel         gocv.Mat
 	hann           gocv.Mat // window for phase correlation (32F)
+	ref            gocv.Mat // key frame times the window, the reference for shake (32F)
+	pcTmp          gocv.Mat // windowed working image (32F)
+	noWindow       gocv.Mat // empty
+	keyAgeS        float64  // age of the key frame, s
 	warpM          gocv.Mat // 2x3 translation (64F)
 	small          gocv.Mat // colour working image (8UC3)
 	muBGR          gocv.Mat // colour background (32FC3)
@@ -95,12 +106,13 @@ func newSegmenter(p segParams, frameW, frameH int, roi gocv.Mat) *segmenter {
 		crop: image.Rect(0, 0, p.workW*k, p.workH*k),
 		gain: 1,
 	}
-	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.d, &s.d2, &s.thr2, &s.anyFg, &s.darkFg, &s.det, &s.tmp, &s.lmask, &s.labels, &s.stats, &s.cents, &s.small, &s.muBGR} {
+	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.d, &s.d2, &s.thr2, &s.anyFg, &s.darkFg, &s.det, &s.tmp, &s.lmask, &s.labels, &s.stats, &s.cents, &s.small, &s.muBGR, &s.ref, &s.pcTmp, &s.noWindow, &s.unstable, &s.actTmp} {
 		*m = gocv.NewMat()
 	}
 	s.mu = gocv.NewMatWithSize(p.workH, p.workW, gocv.MatTypeCV32F)
 	s.vr = gocv.NewMatWithSize(p.workH, p.workW, gocv.MatTypeCV32F)
 	s.zero = gocv.NewMatWithSizeFromScalar(gocv.NewScalar(0, 0, 0, 0), p.workH, p.workW, gocv.MatTypeCV32F)
+	s.act = gocv.NewMatWithSizeFromScalar(gocv.NewScalar(0, 0, 0, 0), p.workH, p.workW, gocv.MatTypeCV32F)
 	s.protect = gocv.NewMatWithSize(p.workH, p.workW, gocv.MatTypeCV8U)
 	s.notDark = gocv.NewMatWithSizeFromScalar(gocv.NewScalar(255, 0, 0, 0), p.workH, p.workW, gocv.MatTypeCV8U)
 	s.kernel = gocv.GetStructuringElement(gocv.MorphRect, image.Pt(3, 3))
@@ -122,7 +134,7 @@ func newSegmenter(p segParams, frameW, frameH int, roi gocv.Mat) *segmenter {
 }
 
 func (s *segmenter) close() {
-	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.mu, &s.vr, &s.d, &s.d2, &s.thr2, &s.zero, &s.anyFg, &s.darkFg, &s.det, &s.tmp, &s.lmask, &s.protect, &s.notDark, &s.roi, &s.labels, &s.stats, &s.cents, &s.kernel, &s.hann, &s.warpM, &s.small, &s.muBGR} {
+	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.mu, &s.vr, &s.d, &s.d2, &s.thr2, &s.zero, &s.anyFg, &s.darkFg, &s.det, &s.tmp, &s.lmask, &s.protect, &s.notDark, &s.roi, &s.labels, &s.stats, &s.cents, &s.kernel, &s.hann, &s.warpM, &s.small, &s.muBGR, &s.ref, &s.pcTmp, &s.noWindow, &s.act, &s.unstable, &s.actTmp} {
 		m.Close()
 	}
 }
@@ -157,8 +169,9 @@ func hanningWindow(w, h int) gocv.Mat {
 func alpha(dtS, tauS float64) float64 { return 1 - math.Exp(-dtS/tauS) }
 
 // detect segments one frame (8-bit BGR, full size) at time tS and returns
-// the bee candidates. The model is not updated; call learn next.
-func (s *segmenter) detect(frame gocv.Mat, index int, tS float64) []Detection {
+// the bee candidates. zones are where confirmed bees are expected (the
+// linker's predictions). The model is not updated; call learn next.
+func (s *segmenter) detect(frame gocv.Mat, index int, tS float64, zones []protectZone) []Detection {
 	if frame.Cols() != s.frameW || frame.Rows() != s.frameH || frame.Type() != gocv.MatTypeCV8UC3 {
 		panic(fmt.Sprintf("track: frame %d is %dx%d %v, want %dx%d CV8UC3", index, frame.Cols(), frame.Rows(), frame.Type(), s.frameW, s.frameH))
 	}
@@ -185,8 +198,10 @@ func (s *segmenter) detect(frame gocv.Mat, index int, tS float64) []Detection {
 		return nil
 	}
 	if p.stabilize {
-		s.align()
+		s.align(dt)
 	}
+	s.protect.SetTo(gocv.NewScalar(0, 0, 0, 0))
+	s.drawZones(zones)
 	// Global gain: the frame is scaled so that its mean over the pixels
 	// that were not dark foreground in the previous frame matches the
 	// background's (illumination drift, flicker, automatic exposure).
@@ -227,6 +242,15 @@ func (s *segmenter) detect(frame gocv.Mat, index int, tS float64) []Detection {
 	}
 	s.distRunS = 0
 	s.dt = dt
+	// Temporal persistence: pixels that were dark foreground too often of
+	// late (swaying leaf and flower edges, a dark flower centre rocking on
+	// its stalk) are left out, except where a confirmed bee is expected.
+	gocv.Threshold(s.act, &s.actTmp, float32(255*p.maxActivity), 255, gocv.ThresholdBinary)
+	s.actTmp.ConvertTo(&s.unstable, gocv.MatTypeCV8U)
+	gocv.BitwiseNot(s.protect, &s.tmp)
+	gocv.BitwiseAnd(s.unstable, s.tmp, &s.unstable)
+	gocv.BitwiseNot(s.unstable, &s.tmp)
+	gocv.BitwiseAnd(s.darkFg, s.tmp, &s.det)
 	s.haveSmall = false
 	if s.frames%s.p.colourEvery == 0 {
 		s.colour(frame)
@@ -234,25 +258,60 @@ func (s *segmenter) detect(frame gocv.Mat, index int, tS float64) []Detection {
 	return s.blobs(index)
 }
 
-// align estimates the camera shake of the working image against the
-// background by phase correlation (Kuglin & Hines 1975) and translates
-// the working image back onto the background.
-func (s *segmenter) align() {
-	sh, resp := gocv.PhaseCorrelate(s.mu, s.x, s.hann)
-	dx, dy := float64(sh.X), float64(sh.Y)
-	if !finite(dx) || !finite(dy) || math.Hypot(dx, dy) > s.p.maxShiftWorkPX || resp < 0.02 {
-		dx, dy = s.shiftX, s.shiftY // unreliable: keep the last estimate
+// align estimates the camera shake of the working image by phase
+// correlation (Kuglin & Hines 1975) and translates the working image back.
+// The reference is a key frame: the first working image after the model
+// (re)starts, renewed every shakeKeyS seconds by the current image
+// translated back onto it, so it stays sharp (phase correlation against a
+// blurred mean underestimates shifts) and in the same place (estimates
+// against the background, which is learned from aligned images, could
+// drift). A second round on the once-aligned image refines the estimate.
+func (s *segmenter) align(dt float64) {
+	var dx, dy float64
+	ok := true
+	for round := 0; round < 2 && ok; round++ {
+		src := s.x
+		if round > 0 {
+			s.warp(s.x, &s.xa, dx, dy)
+			src = s.xa
+		}
+		// cv::phaseCorrelate (OpenCV 4.6) multiplies its inputs by the
+		// window in place when their size is already a good DFT size, so
+		// it gets windowed copies and no window.
+		gocv.Multiply(src, s.hann, &s.pcTmp)
+		sh, resp := gocv.PhaseCorrelate(s.ref, s.pcTmp, s.noWindow)
+		ddx, ddy := float64(sh.X), float64(sh.Y)
+		if !finite(ddx) || !finite(ddy) || resp < 0.02 {
+			ok = round > 0 // first round unusable: keep the last estimate
+			break
+		}
+		dx, dy = dx+ddx, dy+ddy
+	}
+	if !ok || math.Hypot(dx, dy) > s.p.maxShiftWorkPX {
+		dx, dy = s.shiftX, s.shiftY
 	}
 	s.shiftX, s.shiftY = dx, dy
-	// xa(p) = x(p + shift): forward map p -> p - shift.
+	s.warp(s.x, &s.xa, dx, dy)
+	s.x, s.xa = s.xa, s.x
+	s.keyAgeS += dt
+	if s.keyAgeS >= shakeKeyS {
+		gocv.Multiply(s.x, s.hann, &s.ref)
+		s.keyAgeS = 0
+	}
+}
+
+// shakeKeyS is the age at which the key frame for shake is renewed, s.
+const shakeKeyS = 20.0
+
+// warp writes src translated by (-dx, -dy) to dst: dst(p) = src(p + d).
+func (s *segmenter) warp(src gocv.Mat, dst *gocv.Mat, dx, dy float64) {
 	s.warpM.SetDoubleAt(0, 0, 1)
 	s.warpM.SetDoubleAt(0, 1, 0)
 	s.warpM.SetDoubleAt(0, 2, -dx)
 	s.warpM.SetDoubleAt(1, 0, 0)
 	s.warpM.SetDoubleAt(1, 1, 1)
 	s.warpM.SetDoubleAt(1, 2, -dy)
-	gocv.WarpAffineWithParams(s.x, &s.xa, s.warpM, image.Pt(s.p.workW, s.p.workH), gocv.InterpolationLinear, gocv.BorderReplicate, color.RGBA{})
-	s.x, s.xa = s.xa, s.x
+	gocv.WarpAffineWithParams(src, dst, s.warpM, image.Pt(s.p.workW, s.p.workH), gocv.InterpolationLinear, gocv.BorderReplicate, color.RGBA{})
 }
 
 // restart makes the current working image the background and starts the
@@ -263,6 +322,10 @@ func (s *segmenter) restart(frame gocv.Mat) {
 	s.n = 1
 	s.distRunS = 0
 	s.shiftX, s.shiftY = 0, 0
+	if s.p.stabilize {
+		gocv.Multiply(s.x, s.hann, &s.ref)
+		s.keyAgeS = 0
+	}
 	s.skipLearn = true
 	s.notDark.SetTo(gocv.NewScalar(255, 0, 0, 0))
 	if !s.roi.Empty() {
@@ -282,16 +345,10 @@ func (s *segmenter) colour(frame gocv.Mat) {
 	s.haveSmall = true
 }
 
-// learn updates the background with the current frame: the selective
-// running Gaussian. zones are discs (frame px) where confirmed bees are
-// or are expected; they are not learned at all.
-func (s *segmenter) learn(zones []protectZone) {
-	if s.skipLearn {
-		return
-	}
+// drawZones marks discs of the frame (px) in the protect mask.
+func (s *segmenter) drawZones(zones []protectZone) {
 	p := s.p
 	k := float64(p.factor)
-	s.protect.SetTo(gocv.NewScalar(0, 0, 0, 0))
 	for _, z := range zones {
 		cx := (z.XPX-(k-1)/2)/k - s.shiftX
 		cy := (z.YPX-(k-1)/2)/k - s.shiftY
@@ -301,6 +358,18 @@ func (s *segmenter) learn(zones []protectZone) {
 		}
 		gocv.Circle(&s.protect, image.Pt(int(math.Round(cx)), int(math.Round(cy))), r, color.RGBA{255, 255, 255, 0}, -1)
 	}
+}
+
+// learn updates the background with the current frame: the selective
+// running Gaussian. zones are discs (frame px) where confirmed bees were
+// detected in this frame; together with the zones given to detect they
+// are not learned at all.
+func (s *segmenter) learn(zones []protectZone) {
+	if s.skipLearn {
+		return
+	}
+	p := s.p
+	s.drawZones(zones)
 	aBG := alpha(s.dt, p.bgTauS)
 	aFG := alpha(s.dt, p.fgTauS)
 	if float64(s.n) < p.warmS*p.fps {
@@ -315,9 +384,14 @@ func (s *segmenter) learn(zones []protectZone) {
 	// bees. Foreground pixels count too, so that pixels that keep
 	// changing (swaying grass) grow a large variance and stop being
 	// foreground; the clamp bounds what one passing bee adds.
+	// Variance and foreground frequency start as cumulative averages too,
+	// until their own rates take over: a fresh model learns where the
+	// scene sways within the first few sway periods.
+	c := 1 / float64(s.n+1)
 	gocv.BitwiseNot(s.protect, &s.lmask)
+	gocv.AccumulatedWeightedWithMask(s.darkFg, &s.act, math.Max(c, alpha(s.dt, p.actTauS)), s.lmask)
 	gocv.Threshold(s.d2, &s.d2, float32(p.varClamp), 0, gocv.ThresholdTrunc)
-	gocv.AccumulatedWeightedWithMask(s.d2, &s.vr, aBG, s.lmask)
+	gocv.AccumulatedWeightedWithMask(s.d2, &s.vr, math.Max(c, aBG), s.lmask)
 	s.vr.SubtractFloat(float32(p.varFloor))
 	gocv.Threshold(s.vr, &s.vr, 0, 0, gocv.ThresholdToZero)
 	s.vr.AddFloat(float32(p.varFloor))
@@ -350,7 +424,7 @@ func (s *segmenter) learn(zones []protectZone) {
 // gate at the working scale and measures the survivors at full size.
 func (s *segmenter) blobs(index int) []Detection {
 	p := s.p
-	gocv.MorphologyEx(s.darkFg, &s.det, gocv.MorphClose, s.kernel)
+	gocv.MorphologyEx(s.det, &s.det, gocv.MorphClose, s.kernel)
 	n := gocv.ConnectedComponentsWithStats(s.det, &s.labels, &s.stats, &s.cents)
 	if n <= 1 {
 		return nil
@@ -362,7 +436,7 @@ func (s *segmenter) blobs(index int) []Detection {
 		vr:     float32s(s.vr),
 	}
 	c.grey, _ = s.greyFull.DataPtrUint8()
-	var out []Detection
+	var frags []blob
 	for i := 1; i < n; i++ {
 		r := st[i*5 : i*5+5]
 		area := float64(r[4])
@@ -370,11 +444,95 @@ func (s *segmenter) blobs(index int) []Detection {
 			continue
 		}
 		box := image.Rect(int(r[0]), int(r[1]), int(r[0]+r[2]), int(r[1]+r[3]))
-		if d, ok := s.refine(c, int32(i), box, index); ok {
+		if b, ok := s.refine(c, int32(i), box); ok {
+			frags = append(frags, b)
+		}
+	}
+	frags = mergeFragments(frags, p.beeLenPX)
+	var out []Detection
+	for _, b := range frags {
+		if d, ok := b.detection(index, p); ok {
 			out = append(out, d)
 		}
 	}
 	return out
+}
+
+// blob holds the weighted moment sums of one blob in frame coordinates,
+// px: m0 = sum w, mx = sum w x, mxx = sum w x^2, ...
+type blob struct {
+	m0, mx, my, mxx, mxy, myy float64
+	area, body                int // foreground and body pixels
+	box                       image.Rectangle
+}
+
+// shape returns the centroid, the full axes of the moment ellipse and the
+// orientation of its major axis (degrees counter-clockwise on screen from
+// +x, in [0, 180)).
+func (b blob) shape() (xc, yc, major, minor, angDeg float64) {
+	xc, yc = b.mx/b.m0, b.my/b.m0
+	cxx := b.mxx/b.m0 - xc*xc
+	cxy := b.mxy/b.m0 - xc*yc
+	cyy := b.myy/b.m0 - yc*yc
+	tr, det := cxx+cyy, cxx*cyy-cxy*cxy
+	disc := math.Sqrt(math.Max(0, tr*tr/4-det))
+	l1, l2 := tr/2+disc, math.Max(0, tr/2-disc)
+	major, minor = 4*math.Sqrt(l1), 4*math.Sqrt(l2)
+	// In image coordinates (y down) the orientation 0.5 atan2(2cxy,
+	// cxx-cyy) is clockwise on screen; Detection wants counter-clockwise.
+	angDeg = math.Mod(-0.5*math.Atan2(2*cxy, cxx-cyy)*180/math.Pi+360, 180)
+	return
+}
+
+func (b blob) merged(o blob) blob {
+	return blob{
+		m0: b.m0 + o.m0, mx: b.mx + o.mx, my: b.my + o.my,
+		mxx: b.mxx + o.mxx, mxy: b.mxy + o.mxy, myy: b.myy + o.myy,
+		area: b.area + o.area, body: b.body + o.body, box: b.box.Union(o.box),
+	}
+}
+
+// mergeFragments joins blobs that are parts of one bee: a bee crossing a
+// dark flower centre or a dark stem is cut in two where it has no
+// contrast. Two blobs merge when their centroids are closer than 0.8 body
+// lengths and the merged moment ellipse is at most 1.3 body lengths long,
+// closest pair first. Two bees that overlap that much are one blob anyway.
+func mergeFragments(fr []blob, bl float64) []blob {
+	for {
+		bi, bj, best := -1, -1, 0.8*bl
+		for i := range fr {
+			xi, yi, _, _, _ := fr[i].shape()
+			for j := i + 1; j < len(fr); j++ {
+				xj, yj, _, _, _ := fr[j].shape()
+				if d := math.Hypot(xi-xj, yi-yj); d < best {
+					if _, _, maj, _, _ := fr[i].merged(fr[j]).shape(); maj <= 1.3*bl {
+						bi, bj, best = i, j, d
+					}
+				}
+			}
+		}
+		if bi < 0 {
+			return fr
+		}
+		fr[bi] = fr[bi].merged(fr[bj])
+		fr = append(fr[:bj], fr[bj+1:]...)
+	}
+}
+
+// detection applies the shape gates and returns the detection of b.
+func (b blob) detection(index int, p segParams) (Detection, bool) {
+	if b.m0 <= 0 || b.area == 0 || float64(b.body) < p.minBodyPX {
+		return Detection{}, false
+	}
+	xc, yc, major, minor, ang := b.shape()
+	if major > p.maxLenPX || minor < p.minWidthPX || major/minor > p.maxElong || float64(b.area) < p.minAreaPX {
+		return Detection{}, false
+	}
+	return Detection{
+		Frame: index, XPX: xc, YPX: yc,
+		AreaPX: float64(b.area), MajorPX: major, MinorPX: minor, AngleDeg: ang,
+		Box: b.box,
+	}, true
 }
 
 // refineCtx holds raw views of the images the refinement reads.
@@ -408,7 +566,7 @@ type refineCtx struct {
 // (exact for a uniform ellipse) and orientation 0.5 atan2(2 C_xy, C_xx -
 // C_yy). A blob with fewer than minBodyPX pixels with w > 0 is a shadow or
 // a dimmed patch, not a bee, and is dropped.
-func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle, index int) (Detection, bool) {
+func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) (blob, bool) {
 	p := s.p
 	k := p.factor
 	kf := float64(k)
@@ -476,30 +634,17 @@ func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle, index in
 			m2yy += w * fy * fy
 		}
 	}
-	if m0 <= 0 || area == 0 || float64(body) < p.minBodyPX {
-		return Detection{}, false
+	if m0 <= 0 || area == 0 {
+		return blob{}, false
 	}
-	xc, yc := m1x/m0, m1y/m0
-	cxx := m2xx/m0 - xc*xc
-	cxy := m2xy/m0 - xc*yc
-	cyy := m2yy/m0 - yc*yc
-	tr, det := cxx+cyy, cxx*cyy-cxy*cxy
-	disc := math.Sqrt(math.Max(0, tr*tr/4-det))
-	l1, l2 := tr/2+disc, math.Max(0, tr/2-disc)
-	major, minor := 4*math.Sqrt(l1), 4*math.Sqrt(l2)
-	// Orientation in image coordinates (y down) is 0.5 atan2(2cxy, cxx-cyy),
-	// clockwise on screen; Detection wants counter-clockwise on screen.
-	ang := -0.5 * math.Atan2(2*cxy, cxx-cyy) * 180 / math.Pi
-	ang = math.Mod(ang+360, 180)
-	if major > p.maxLenPX || minor == 0 || major/minor > p.maxElong {
-		return Detection{}, false
-	}
-	return Detection{
-		Frame: index,
-		XPX:   float64(x0) + xc, YPX: float64(y0) + yc,
-		AreaPX:  float64(area),
-		MajorPX: major, MinorPX: minor, AngleDeg: ang,
-		Box: image.Rect(bx0, by0, bx1, by1),
+	// Sums about the window origin to frame coordinates.
+	ox, oy := float64(x0), float64(y0)
+	return blob{
+		m0: m0, mx: m1x + ox*m0, my: m1y + oy*m0,
+		mxx:  m2xx + 2*ox*m1x + ox*ox*m0,
+		mxy:  m2xy + ox*m1y + oy*m1x + ox*oy*m0,
+		myy:  m2yy + 2*oy*m1y + oy*oy*m0,
+		area: area, body: body, box: image.Rect(bx0, by0, bx1, by1),
 	}, true
 }
 
@@ -534,4 +679,10 @@ func float32s(m gocv.Mat) []float32 {
 		panic("track: " + err.Error())
 	}
 	return f
+}
+
+func (s *segmenter) grey32() gocv.Mat {
+	m := gocv.NewMat()
+	s.grey.ConvertTo(&m, gocv.MatTypeCV32F)
+	return m
 }

@@ -61,10 +61,22 @@ type Settings struct {
 	// floored at MinContrastGrey / ThresholdSigma. Default 14.
 	MinContrastGrey float64 `toml:"min_contrast_grey" json:"min_contrast_grey"`
 
+	// ActivityTauS is the time over which each pixel's frequency of being
+	// dark foreground is averaged, s, range 0.5..600. Default 8.
+	ActivityTauS float64 `toml:"activity_tau_s" json:"activity_tau_s"`
+
+	// MaxActivity: a pixel that was dark foreground more than this
+	// fraction of the time of late (ActivityTauS) is not used for
+	// detection, except where a confirmed bee is expected: swaying leaf
+	// and flower edges recur, a passing bee covers a pixel for a frame or
+	// two. Range (0, 1]; 1 switches it off. Default 0.03.
+	MaxActivity float64 `toml:"max_activity" json:"max_activity"`
+
 	// MinAreaFrac and MaxAreaFrac bound a blob's area as fractions of the
 	// expected bee area (an ellipse BL long and 0.45 BL wide), range
-	// 0 < Min < Max <= 50. Defaults 0.2 and 4 (two bees touching, or one
-	// blurred by fast flight).
+	// 0 < Min < Max <= 50. Defaults 0.35 (a bee half out of the picture
+	// or behind a leaf) and 4 (two bees touching, or one blurred by fast
+	// flight).
 	MinAreaFrac float64 `toml:"min_area_frac" json:"min_area_frac"`
 	MaxAreaFrac float64 `toml:"max_area_frac" json:"max_area_frac"`
 
@@ -73,8 +85,16 @@ type Settings struct {
 	MaxLengthBL float64 `toml:"max_length_bl" json:"max_length_bl"`
 
 	// MaxElongation is the largest ratio of the fitted ellipse's axes
-	// accepted (rejects grass blades and stems), range 1.5..50. Default 6.
+	// accepted (rejects grass blades, stems and the thin crescents a
+	// swaying flower uncovers), range 1.5..50. Default 4.5: a bee seen
+	// from above is about 2.2, and motion blur of up to 1.5 body lengths
+	// stays below 4.5; raise it for slow shutters.
 	MaxElongation float64 `toml:"max_elongation" json:"max_elongation"`
+
+	// MinWidthBL is the shortest minor axis of the fitted ellipse
+	// accepted, body lengths, range 0..1. Default 0.2 (a bee's body is
+	// about 0.35 to 0.5 body lengths wide).
+	MinWidthBL float64 `toml:"min_width_bl" json:"min_width_bl"`
 
 	// ShadowRatio: pixels darker than this fraction of the background's
 	// brightness are taken as bee body; brighter foreground (a shadow
@@ -100,6 +120,14 @@ type Settings struct {
 	// a swaying flower stays in place, and protecting it would keep it
 	// out of the background for good. Default 2.
 	ProtectAfterBL float64 `toml:"protect_after_bl" json:"protect_after_bl"`
+
+	// MinTravelBL: Finish drops a track whose detections never get this
+	// far from its first one, body lengths, range 0..100 (0 = keep all).
+	// Bees arrive and leave flying; a dark flower centre or a leaf edge
+	// swaying in the wind flickers in place. A bee that sits still for
+	// the whole clip is part of the background and not seen anyway.
+	// Default 1.5.
+	MinTravelBL float64 `toml:"min_travel_bl" json:"min_travel_bl"`
 
 	// DisturbedFrac: a frame in which more than this fraction of the
 	// analysed area differs from the background (camera bumped, exposure
@@ -141,14 +169,18 @@ func (s Settings) withDefaults() Settings {
 	def(&s.ForegroundTauS, 60)
 	def(&s.ThresholdSigma, 3.5)
 	def(&s.MinContrastGrey, 14)
-	def(&s.MinAreaFrac, 0.2)
+	def(&s.ActivityTauS, 8)
+	def(&s.MaxActivity, 0.03)
+	def(&s.MinAreaFrac, 0.35)
 	def(&s.MaxAreaFrac, 4)
 	def(&s.MaxLengthBL, 3)
-	def(&s.MaxElongation, 6)
+	def(&s.MaxElongation, 4.5)
+	def(&s.MinWidthBL, 0.2)
 	def(&s.ShadowRatio, 0.55)
 	def(&s.MinBodyFrac, 0.1)
 	def(&s.ProtectBL, 1)
 	def(&s.ProtectAfterBL, 2)
+	def(&s.MinTravelBL, 1.5)
 	def(&s.DisturbedFrac, 0.25)
 	def(&s.ResetAfterS, 1)
 	return s
@@ -171,14 +203,18 @@ func (s Settings) Validate() error {
 		{"foreground_tau_s", d.ForegroundTauS, d.BackgroundTauS, math.Inf(1), false},
 		{"threshold_sigma", d.ThresholdSigma, 1, 20, false},
 		{"min_contrast_grey", d.MinContrastGrey, 1, 200, false},
+		{"activity_tau_s", d.ActivityTauS, 0.5, 600, false},
+		{"max_activity", d.MaxActivity, 0, 1, true},
 		{"min_area_frac", d.MinAreaFrac, 0, d.MaxAreaFrac, true},
 		{"max_area_frac", d.MaxAreaFrac, d.MinAreaFrac, 50, true},
 		{"max_length_bl", d.MaxLengthBL, 1, 20, false},
 		{"max_elongation", d.MaxElongation, 1.5, 50, false},
+		{"min_width_bl", d.MinWidthBL, 0, 1, false},
 		{"shadow_ratio", d.ShadowRatio, 0, 1, true},
 		{"min_body_frac", d.MinBodyFrac, 0, 1, true},
 		{"protect_bl", d.ProtectBL, 0.25, 5, false},
 		{"protect_after_bl", d.ProtectAfterBL, 0, 100, false},
+		{"min_travel_bl", d.MinTravelBL, 0, 100, false},
 		{"disturbed_frac", d.DisturbedFrac, 0, 1, true},
 		{"reset_after_s", d.ResetAfterS, 0, math.Inf(1), true},
 	} {
@@ -220,10 +256,14 @@ func (s Settings) segParams(w, h int, fps float64) segParams {
 		varInit:        4 * floor * floor,
 		varClamp:       60 * 60,
 		minContrast:    s.MinContrastGrey,
-		minAreaWork:    math.Max(1, s.MinAreaFrac*expArea),
+		minAreaWork:    math.Max(1, 0.5*s.MinAreaFrac*expArea),
+		minAreaPX:      s.MinAreaFrac * math.Pi / 4 * bl * 0.45 * bl,
+		minWidthPX:     s.MinWidthBL * bl,
 		maxAreaWork:    s.MaxAreaFrac * expArea,
 		maxLenPX:       s.MaxLengthBL * bl,
 		maxElong:       s.MaxElongation,
+		actTauS:        s.ActivityTauS,
+		maxActivity:    s.MaxActivity,
 		shadowRatio:    s.ShadowRatio,
 		minBodyPX:      math.Max(2, s.MinBodyFrac*math.Pi/4*bl*0.45*bl),
 		disturbedFrac:  s.DisturbedFrac,

@@ -30,25 +30,27 @@ type Tracker struct {
 	closed bool
 }
 
-// travelled records where a confirmed track started and whether it has
-// since been seen ProtectAfterBL away from there.
+// travelled records where a confirmed track started, where it was last,
+// and whether it has been seen ProtectAfterBL away from its start.
 type travelled struct {
-	x0, y0 float64
+	x0, y0 float64 // first position, px
+	x, y   float64 // latest position (detection or prediction), px
 	far    bool
-	frame  int // last frame seen
+	frame  int // frame of x, y
 }
 
 // Stats count what the Tracker saw, for the run summary.
 type Stats struct {
-	Frames            int     // frames stepped
-	Detections        int     // detections passed to the linker
-	DisturbedFrames   int     // frames skipped as disturbed (see Settings.DisturbedFrac)
-	BackgroundResets  int     // restarts of the background after a long disturbance
-	WorkFactor        int     // the frame is reduced by this factor for detection
-	BodyLengthPX      float64 // expected bee length, px
-	MeanShiftPX       float64 // mean magnitude of the estimated camera shake, px (0 without Stabilize)
-	shiftSum          float64
-	shiftN            int
+	Frames           int     // frames stepped
+	Detections       int     // detections passed to the linker
+	DisturbedFrames  int     // frames skipped as disturbed (see Settings.DisturbedFrac)
+	BackgroundResets int     // restarts of the background after a long disturbance
+	StationaryTracks int     // tracks dropped by Finish for never moving MinTravelBL
+	WorkFactor       int     // the frame is reduced by this factor for detection
+	BodyLengthPX     float64 // expected bee length, px
+	MeanShiftPX      float64 // mean magnitude of the estimated camera shake, px (0 without Stabilize)
+	shiftSum         float64
+	shiftN           int
 }
 
 // NewTracker prepares a Tracker for a clip described by info. It returns
@@ -138,22 +140,33 @@ func (t *Tracker) Step(fi FrameInfo, frame gocv.Mat) error {
 	}
 	t.begun = true
 	t.last = fi.Index
-	preds := t.lk.Predicted()
-	t.dets = t.seg.detect(frame, fi.Index, fi.TimeS)
-	asg := t.lk.Step(fi.Index, t.dets)
-
 	bl := t.p.beeLenPX
 	r0 := t.s.ProtectBL * bl
 	far2 := (t.s.ProtectAfterBL * bl) * (t.s.ProtectAfterBL * bl)
+	preds := t.lk.Predicted()
+	t.zones = t.zones[:0]
+	for _, p := range preds {
+		if tv := t.travel[p.TrackID]; p.Frame == fi.Index && tv != nil && tv.far {
+			t.zones = append(t.zones, protectZone{p.XPX, p.YPX, r0})
+		}
+	}
+	t.dets = t.seg.detect(frame, fi.Index, fi.TimeS, t.zones)
+	asg := t.lk.Step(fi.Index, t.dets)
+
 	t.zones = t.zones[:0]
 	for _, a := range asg {
 		d := t.dets[a.DetIndex]
 		tv := t.travel[a.TrackID]
 		if tv == nil {
-			tv = &travelled{x0: d.XPX, y0: d.YPX}
+			tv = &travelled{x0: d.XPX, y0: d.YPX, far: t.inherits(d, fi.Index)}
 			t.travel[a.TrackID] = tv
 		}
-		tv.frame = fi.Index
+		if !tv.far && t.inherits(d, fi.Index) {
+			// The detection continues a protected track's path: the
+			// linker gave the bee to another track.
+			tv.far = true
+		}
+		tv.x, tv.y, tv.frame = d.XPX, d.YPX, fi.Index
 		if dx, dy := d.XPX-tv.x0, d.YPX-tv.y0; dx*dx+dy*dy >= far2 {
 			tv.far = true
 		}
@@ -162,9 +175,8 @@ func (t *Tracker) Step(fi FrameInfo, frame gocv.Mat) error {
 		}
 	}
 	for _, p := range preds {
-		if tv := t.travel[p.TrackID]; p.Frame == fi.Index && tv != nil && tv.far {
-			t.zones = append(t.zones, protectZone{p.XPX, p.YPX, r0})
-			tv.frame = fi.Index
+		if tv := t.travel[p.TrackID]; p.Frame == fi.Index && tv != nil && tv.frame != fi.Index {
+			tv.x, tv.y, tv.frame = p.XPX, p.YPX, fi.Index
 		}
 	}
 	t.seg.learn(t.zones)
@@ -186,6 +198,26 @@ func (t *Tracker) Step(fi FrameInfo, frame gocv.Mat) error {
 	return nil
 }
 
+// inherits reports whether a track newly confirmed at detection d takes
+// over from a protected track seen within the last second and within 2
+// body lengths (plus a second's flight at 1 body length per frame): the
+// linker lost a bee as it braked to land and started a new track on it.
+func (t *Tracker) inherits(d Detection, frame int) bool {
+	bl := t.p.beeLenPX
+	maxAge := int(math.Ceil(t.info.FPS))
+	for _, tv := range t.travel {
+		age := frame - tv.frame
+		if !tv.far || age < 0 || age > maxAge {
+			continue
+		}
+		r := 2*bl + float64(age)*bl
+		if dx, dy := d.XPX-tv.x, d.YPX-tv.y; dx*dx+dy*dy <= r*r {
+			return true
+		}
+	}
+	return false
+}
+
 // Detections returns the detections of the latest Step (valid until the
 // next Step).
 func (t *Tracker) Detections() []Detection { return t.dets }
@@ -197,7 +229,38 @@ func (t *Tracker) Finish() []Track {
 		panic("track: Finish called twice or after Close")
 	}
 	t.done = true
-	return t.lk.Finish()
+	all := t.lk.Finish()
+	min2 := (t.s.MinTravelBL * t.p.beeLenPX) * (t.s.MinTravelBL * t.p.beeLenPX)
+	out := all[:0]
+	for _, tr := range all {
+		if travelled2(tr) >= min2 {
+			tr.ID = len(out) + 1
+			out = append(out, tr)
+		} else {
+			t.stats.StationaryTracks++
+		}
+	}
+	return out
+}
+
+// travelled2 is the largest squared distance of an observed point of tr
+// from its first observed point, px^2.
+func travelled2(tr Track) float64 {
+	var x0, y0, best float64
+	first := true
+	for _, p := range tr.Points {
+		if !p.Observed {
+			continue
+		}
+		if first {
+			x0, y0, first = p.XPX, p.YPX, false
+			continue
+		}
+		if d := (p.XPX-x0)*(p.XPX-x0) + (p.YPX-y0)*(p.YPX-y0); d > best {
+			best = d
+		}
+	}
+	return best
 }
 
 // Stats returns the counters so far.

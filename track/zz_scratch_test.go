@@ -50,6 +50,27 @@ func diag(t *testing.T, name string, truth *meadow.Truth, tracks []Track, s Sett
 	for k, a := range agg {
 		t.Logf("  %-30s n=%5.0f bias=(%.2f,%.2f) rmse=%.2f", k, a[0], a[1]/a[0], a[2]/a[0], math.Sqrt(a[3]/a[0]))
 	}
+	for _, p := range pairs {
+		if p.Switch {
+			t.Logf("switch at frame %d truth %d -> hyp %d", p.Frame, p.TruthID, p.HypID)
+		}
+	}
+	so, _ := mot.Evaluate(gt, mot.FromTracks(tracks, true), 0.5*s.BodyLengthPX())
+	t.Logf("observed only: MOTA %.4f RMSE %.3f IDF1 %.3f sw %d miss %d fp %d false %v", so.MOTA, so.RMSEPX, so.IDF1, so.IDSwitches, so.Misses, so.FalsePositives, so.FalseTracks)
+	matched := map[key]bool{}
+	for _, p := range pairs {
+		matched[key{p.Frame, p.HypID}] = true
+	}
+	fpFrames := []int{}
+	for _, h := range hyp {
+		if !matched[key{h.Frame, h.ID}] {
+			fpFrames = append(fpFrames, h.Frame)
+		}
+	}
+	if len(fpFrames) > 40 {
+		fpFrames = fpFrames[:40]
+	}
+	t.Logf("FP frames: %v", fpFrames)
 	for _, tr := range tracks {
 		n, sx, sy := 0, 0.0, 0.0
 		for _, p := range tr.Points {
@@ -70,6 +91,7 @@ func TestScratchMeadow(t *testing.T) {
 	path, truth := renderScene(t, name, cfg)
 	t0 := time.Now()
 	s := sceneSettings(truth)
+	s.Stabilize = os.Getenv("STAB") != ""
 	tracks, st, _, err := trackFile(t, path, s)
 	t.Logf("track %v err %v stats %+v", time.Since(t0), err, st)
 	diag(t, name, truth, tracks, s)

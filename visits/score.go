@@ -10,8 +10,15 @@ import (
 // Score compares found landings and inspections with ground truth (see
 // ScoreAgainstTruth). Ratios with a zero denominator are NaN.
 type Score struct {
+	// TruthLandings and FoundLandings leave out the ignored ones.
 	TruthLandings, FoundLandings, MatchedLandings int
-	LandingPrecision, LandingRecall, LandingF1    float64
+	// IgnoredTruthLandings: true landings cut by the clip's start or end
+	// to less than MinScoredCensoredS, which no detector can tell from a
+	// touch in passing; they count neither as found nor as missed, and
+	// found landings overlapping them on the same flower are left out too
+	// (IgnoredFoundLandings).
+	IgnoredTruthLandings, IgnoredFoundLandings int
+	LandingPrecision, LandingRecall, LandingF1 float64
 	// Onset (offset) error: |found StartFrame - true StartFrame| (EndFrame)
 	// over matched landings whose start (end) is censored in neither,
 	// frames. Percentiles as in Stats (Hyndman & Fan 1996, definition 7).
@@ -30,6 +37,11 @@ type Score struct {
 	// the flower being inspected does not count).
 	InspectionsAsLandingsFrac float64
 }
+
+// MinScoredCensoredS: a true landing cut by the clip's start or end that
+// is visible for less than this (s) is not scored (see
+// Score.IgnoredTruthLandings). It equals the default MinLandingS.
+const MinScoredCensoredS = 0.3
 
 // Targets are the accuracy targets of the visit detector on synthetic
 // scenes (issue 5).
@@ -63,10 +75,10 @@ func (s Score) MeetsTargets() error {
 }
 
 func (s Score) String() string {
-	return fmt.Sprintf("landings truth %d found %d matched %d: P %.3f R %.3f F1 %.3f; onset err median %.1f p95 %.1f max %.0f frames; "+
+	return fmt.Sprintf("landings truth %d found %d matched %d (ignored: %d truth, %d found): P %.3f R %.3f F1 %.3f; onset err median %.1f p95 %.1f max %.0f frames; "+
 		"offset err median %.1f p95 %.1f max %.0f frames; handling bias %+.3f s; inspections truth %d found %d matched %d: "+
 		"recall %.3f precision %.3f, as landings %.3f",
-		s.TruthLandings, s.FoundLandings, s.MatchedLandings, s.LandingPrecision, s.LandingRecall, s.LandingF1,
+		s.TruthLandings, s.FoundLandings, s.MatchedLandings, s.IgnoredTruthLandings, s.IgnoredFoundLandings, s.LandingPrecision, s.LandingRecall, s.LandingF1,
 		s.OnsetErrMedianFrames, s.OnsetErrP95Frames, s.OnsetErrMaxFrames,
 		s.OffsetErrMedianFrames, s.OffsetErrP95Frames, s.OffsetErrMaxFrames, s.HandlingBiasS,
 		s.TruthInspections, s.FoundInspections, s.MatchedInspections, s.InspectionRecall, s.InspectionPrecision, s.InspectionsAsLandingsFrac)
@@ -132,10 +144,14 @@ func matchSpans(truth, found []span) []int {
 // overlapping pairs (intersection over union of their frame intervals) are
 // taken first. Track ids are not compared, since the tracker numbers bees
 // its own way. Onset and offset errors are taken over matched landings,
-// leaving out starts (ends) censored in either.
+// leaving out starts (ends) censored in either. True landings cut by the
+// clip to less than MinScoredCensoredS are not scored (see
+// Score.IgnoredTruthLandings).
 func ScoreAgainstTruth(truthL []Landing, truthI []Inspection, gotL []Landing, gotI []Inspection) Score {
 	nan := math.NaN()
-	s := Score{TruthLandings: len(truthL), FoundLandings: len(gotL), TruthInspections: len(truthI), FoundInspections: len(gotI)}
+	s := Score{TruthInspections: len(truthI), FoundInspections: len(gotI)}
+	truthL, gotL, s.IgnoredTruthLandings, s.IgnoredFoundLandings = dropUnscorable(truthL, gotL)
+	s.TruthLandings, s.FoundLandings = len(truthL), len(gotL)
 	ls := func(xs []Landing) []span {
 		out := make([]span, len(xs))
 		for i, x := range xs {
@@ -215,6 +231,33 @@ func ScoreAgainstTruth(truthL []Landing, truthI []Inspection, gotL []Landing, go
 		s.InspectionsAsLandingsFrac = nan
 	}
 	return s
+}
+
+// dropUnscorable removes the true landings cut by the clip to less than
+// MinScoredCensoredS and the found landings that overlap them on the same
+// flower.
+func dropUnscorable(truthL, gotL []Landing) (t, g []Landing, nt, ng int) {
+	var ignored []span
+	for _, l := range truthL {
+		if (l.CensoredStart || l.CensoredEnd) && l.DurationS < MinScoredCensoredS {
+			ignored = append(ignored, span{l.FlowerID, l.StartFrame, l.EndFrame})
+			continue
+		}
+		t = append(t, l)
+	}
+	for _, l := range gotL {
+		drop := false
+		for _, sp := range ignored {
+			if overlap(sp, span{l.FlowerID, l.StartFrame, l.EndFrame}) > 0 {
+				drop = true
+				break
+			}
+		}
+		if !drop {
+			g = append(g, l)
+		}
+	}
+	return t, g, len(truthL) - len(t), len(gotL) - len(g)
 }
 
 func f1(p, r float64) float64 {

@@ -45,9 +45,9 @@ type Settings struct {
 	StillWindowS float64 `toml:"still_window_s" json:"still_window_s"`
 	// StillNoiseFactor: see StillWindowS. > 0; default 1.2. The scatter
 	// of noise alone over 15 frames is about 0.97 sigma with a relative
-	// spread of about 0.13, so it passes 1.2 sigma in about 19 windows in
-	// 20, while a hover wandering by 1 mm at 2 px/mm and 1 px noise
-	// scatters by about 1.6 sigma; a landing needs MinLandingS of
+	// spread of about 0.13, so it passes 1.2 sigma in about 1 window in
+	// 30, while a hover wandering by +-1 mm at 2 px/mm and 1 px noise
+	// scatters by about 1.7 sigma; a landing needs MinLandingS of
 	// consecutive still frames, which a bee sitting on a flower for a
 	// second or more provides many times over.
 	StillNoiseFactor float64 `toml:"still_noise_factor" json:"still_noise_factor"`
@@ -61,10 +61,10 @@ type Settings struct {
 	// RestTolSigma: the first frame of a landing is the change point
 	// between samples farther than sqrt((RestTolSigma*sigma)^2 +
 	// StillFloorMM^2) from the resting place (the approach) and samples
-	// nearer (the landing), see doc.go. > 0; default 1.5: noise alone
-	// puts a resting bee outside in about 1 frame in 3, which the change
-	// point absorbs, while a bee still 1 mm from its resting place (at
-	// 1 px noise and 2 px/mm) already counts as approaching.
+	// nearer (the landing), see doc.go. > 0; default 2: noise alone
+	// puts a resting bee outside in about 1 frame in 7, which the change
+	// point absorbs, while a bee more than about 2 sigma from its resting
+	// place (1 mm at 1 px noise and 2 px/mm) counts as approaching.
 	RestTolSigma float64 `toml:"rest_tol_sigma" json:"rest_tol_sigma"`
 	// MinLandingS: shorter landed runs are dropped (a bee touching a
 	// flower in passing, or hovering very still). >= 0 s; default 0.3 s:
@@ -119,7 +119,7 @@ func DefaultSettings() Settings {
 		StillWindowS:        0.5,
 		StillNoiseFactor:    1.2,
 		StillFloorMM:        0.3,
-		RestTolSigma:        1.5,
+		RestTolSigma:        2,
 		TakeOffSpeedMMPerS:  60,
 		MinLandingS:         0.3,
 		MinCensoredLandingS: 0.1,

@@ -130,5 +130,5 @@ func noiseSigmaMM(tracks []kinematics.Result, maxSpeed float64) float64 {
 // chi2_4MedianOver4 is the median of a chi-squared variable with 4
 // degrees of freedom divided by 4: chi^2_4 has CDF 1 - (1 + x/2) e^(-x/2),
 // whose median is x = 3.35669 (solving numerically; from memory,
-// checked in still_test.go).
+// checked in TestChiSquareMedian).
 const chi2_4MedianOver4 = 3.356694 / 4

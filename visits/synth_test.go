@@ -10,11 +10,11 @@ import (
 )
 
 // A synthetic forager for tests (invented data, for ground truth only).
-// The bee's true path is a sequence of pieces in continuous time:
-// minimum-jerk flights between points of rest (Flash & Hogan 1985: zero
-// velocity and acceleration at both ends), handling on a flower (still
-// spells with short walks), and hovering near a flower with a Lissajous
-// wander. Positions are sampled at the frame times, Gaussian noise is
+// The bee's true path is a sequence of pieces in continuous time: straight
+// flights between points of rest whose speed rises and falls along half
+// cosines (mean acceleration 2 to 4 m/s^2, cruise 250 to 500 mm/s),
+// handling on a flower (still spells with short minimum-jerk walks; Flash
+// & Hogan 1985), and hovering near a flower with a Lissajous wander. Positions are sampled at the frame times, Gaussian noise is
 // added, and kinematics.Analyze computes the speeds, as in the pipeline.
 
 type piece struct {
@@ -44,6 +44,38 @@ func minJerk(ax, ay, bx, by, t0, t1 float64) func(float64) (float64, float64) {
 		s := u * u * u * (10 - 15*u + 6*u*u)
 		return ax + s*(bx-ax), ay + s*(by-ay)
 	}
+}
+
+// flight returns a straight flight from a to b starting at rest at t0
+// and ending at rest, with cruise speed vc (mm/s) and mean acceleration
+// acc (mm/s^2) in the half-cosine speed ramps, and its duration.
+func flight(ax, ay, bx, by, t0, vc, acc float64) (func(float64) (float64, float64), float64) {
+	d := math.Hypot(bx-ax, by-ay)
+	ta := vc / acc
+	if vc*ta > d { // too short to reach cruise speed
+		vc = math.Sqrt(d * acc)
+		ta = vc / acc
+	}
+	tc := (d - vc*ta) / vc
+	T := 2*ta + tc
+	// s(t): distance along the line. In a ramp v = vc/2 (1 - cos(pi t/ta)).
+	ramp := func(t float64) float64 { return vc / 2 * (t - ta/math.Pi*math.Sin(math.Pi*t/ta)) }
+	return func(t float64) (float64, float64) {
+		u := math.Max(0, math.Min(T, t-t0))
+		var s float64
+		switch {
+		case u < ta:
+			s = ramp(u)
+		case u < ta+tc:
+			s = vc*ta/2 + vc*(u-ta)
+		default:
+			s = d - ramp(T-u)
+		}
+		if d == 0 {
+			return ax, ay
+		}
+		return ax + s/d*(bx-ax), ay + s/d*(by-ay)
+	}, T
 }
 
 // synthConfig sets up a synthetic scene.
@@ -151,9 +183,8 @@ func newSynth(c synthConfig) *synthScene {
 				d := 0.5 * fr * math.Sqrt(rng.Float64())
 				tx, ty = fx+d*math.Cos(a), fy+d*math.Sin(a)
 			}
-			dist := math.Hypot(tx-x, ty-y)
-			fly := math.Max(0.35, dist/(250+250*rng.Float64())*1.875) // mean speed = peak/1.875
-			ps = append(ps, piece{t, t + fly, minJerk(x, y, tx, ty, t, t+fly), pieceFly, -1})
+			pos, fly := flight(x, y, tx, ty, t, 250+250*rng.Float64(), 2000+2000*rng.Float64())
+			ps = append(ps, piece{t, t + fly, pos, pieceFly, -1})
 			t += fly
 			x, y, fi = tx, ty, next
 			if inspect {

@@ -94,7 +94,7 @@ func TestSettingsFileErrors(t *testing.T) {
 	cases := []struct {
 		name, text, want string
 	}{
-		{"syntax", "[video\nfps = 3", "line 1"},
+		{"syntax", "[video]\nfps = = 3\n", "line 2"},
 		{"unknown key", "[video]\nframes_per_second = 30\n", "unknown setting video.frames_per_second"},
 		{"wrong type", "[video]\nfps = \"fast\"\n", "settings file t.toml"},
 	}

@@ -23,8 +23,9 @@ import (
 const demoUsage = `
 usage: flitlog demo [--out DIR] [--overlay]
 
-Renders the built-in demo scene (a made-up allotment plot: one bumblebee
-working a patch of clover, borage and catmint), scores it with exactly the
+Renders the built-in demo scene (an invented place: bed 4 of the Quince Row
+allotments, where two bumblebees work white clover and borage), scores it
+with exactly the
 pipeline of 'flitlog run', and prints a scorecard that compares what the
 pipeline wrote with the scene's ground truth: tracking accuracy, landings,
 handling times and inspections.

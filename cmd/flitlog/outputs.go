@@ -129,6 +129,9 @@ func writeClipOutputs(ctx context.Context, dir string, a *clipAnalysis, s Settin
 		return err
 	}
 	defer os.RemoveAll(tmp)
+	if err := os.Chmod(tmp, 0o755); err != nil {
+		return err
+	}
 	files := []string{fileTracks, fileVisits, fileInspections, fileFlights}
 	write := func(name string, f func(io.Writer) error) error {
 		fh, err := os.Create(filepath.Join(tmp, name))
@@ -161,13 +164,17 @@ func writeClipOutputs(ctx context.Context, dir string, a *clipAnalysis, s Settin
 		files = append(files, names...)
 	}
 	if s.Output.Overlay {
-		if err := writeOverlay(ctx, filepath.Join(tmp, fileOverlay), a, s); err != nil {
-			if ctx.Err() != nil {
-				return errInterrupted
-			}
+		name, warn, err := writeOverlay(ctx, filepath.Join(tmp, fileOverlay), a, s)
+		switch {
+		case ctx.Err() != nil:
+			return errInterrupted
+		case err != nil:
 			a.Warnings = append(a.Warnings, "overlay: "+oneLine(err.Error()))
-		} else {
-			files = append(files, fileOverlay)
+		default:
+			files = append(files, name)
+			if warn != "" {
+				a.Warnings = append(a.Warnings, warn)
+			}
 		}
 	}
 	sum := buildSummary(a, s, key, r, files)

@@ -66,11 +66,12 @@ func writePlots(dir string, a *clipAnalysis) ([]string, error) {
 }
 
 // writeOverlay decodes the clip a second time and writes it with tracks,
-// ids and visit state drawn on every frame.
-func writeOverlay(ctx context.Context, path string, a *clipAnalysis, s Settings) error {
+// ids and visit state drawn on every frame. It returns the name of the
+// file written (overlay.avi when H.264 could not be opened, with a warning).
+func writeOverlay(ctx context.Context, path string, a *clipAnalysis, s Settings) (name, warning string, err error) {
 	src, err := track.Open(a.Path, track.SourceOptions{FPSOverride: s.Video.FPS})
 	if err != nil {
-		return err
+		return "", "", err
 	}
 	defer src.Close()
 	fm := visits.FlowerMap{}
@@ -80,7 +81,7 @@ func writeOverlay(ctx context.Context, path string, a *clipAnalysis, s Settings)
 	fps := a.TimeBase.FPS()
 	ow, err := overlay.Create(path, a.Info.WidthPX, a.Info.HeightPX, fps)
 	if err != nil {
-		return err
+		return "", "", err
 	}
 	tl := overlay.NewTimeline(fm, a.Kinematics, a.Visits.Landings, a.Visits.Inspections)
 	frame := gocv.NewMat()
@@ -88,7 +89,7 @@ func writeOverlay(ctx context.Context, path string, a *clipAnalysis, s Settings)
 	for i := 0; i < a.FramesRead; i++ {
 		if ctx.Err() != nil {
 			ow.Close()
-			return ctx.Err()
+			return "", "", ctx.Err()
 		}
 		fi, err := src.Next(&frame)
 		if err != nil {
@@ -96,14 +97,15 @@ func writeOverlay(ctx context.Context, path string, a *clipAnalysis, s Settings)
 		}
 		if err := ow.Draw(&frame, fi.Index, tl.At(fi.Index, a.TimeBase.Seconds(fi.Index))); err != nil {
 			ow.Close()
-			return err
+			return "", "", err
 		}
 	}
 	if err := ow.Close(); err != nil {
-		return err
+		return "", "", err
 	}
+	name = filepath.Base(ow.Path())
 	if ow.FellBack() {
-		return fmt.Errorf("H.264 writer not available; wrote %s (Motion JPEG) instead", filepath.Base(ow.Path()))
+		warning = fmt.Sprintf("overlay: this OpenCV/FFmpeg cannot write H.264; wrote %s (Motion JPEG) instead", name)
 	}
-	return nil
+	return name, warning, nil
 }

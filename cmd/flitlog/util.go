@@ -58,6 +58,9 @@ func writeFileAtomic(path string, write func(w io.Writer) error) error {
 	if err := f.Close(); err != nil {
 		return err
 	}
+	if err := os.Chmod(tmp, 0o644); err != nil {
+		return err
+	}
 	if err := os.Rename(tmp, path); err != nil {
 		return err
 	}

@@ -12,6 +12,8 @@ import (
 type fragment struct {
 	ids    []int
 	points []Point
+	// endSpeedPXPS is the filter's speed at the last point, px/s.
+	endSpeedPXPS float64
 }
 
 func (f fragment) first() Point { return f.points[0] }
@@ -44,13 +46,22 @@ func (b frameBox) nearEdge(p Point, marginPX float64) bool {
 // end point and b's first point) / FPS in s and d the straight distance
 // between those points in px, these links are allowed:
 //
-//	flight:  g <= MaxGapS and d <= reach = MinGateRadiusPX + MaxSpeedPXPerS g,
+//	flight:  g <= MaxGapS and d <= reach = MinGateRadiusPX + vmax g, where
+//	         vmax = min(MaxSpeedPXPerS, 2 max(va, vb) + StillSpeedPXPerS)
+//	         with va, vb the straight-line speeds over SpeedWindowS before
+//	         a's end and after b's start (va at least the filter's speed at
+//	         a's end) (the bee flies through the gap at most about
+//	         twice as fast as on either side of it, so two still fragments
+//	         far apart are not joined);
 //	         and, if g > MaxCoastMovingS, either both points lie within
-//	         MaxGateRadiusPX of the frame's border (the bee left the
+//	         EdgeMarginPX of the frame's border (the bee left the
 //	         picture and came back) or d <= MaxGateRadiusPX (it hid
 //	         behind something and came out nearby);
-//	         cost g/MaxGapS + d/reach;
-//	sitting: g <= MaxCoastStillS and d <= MinGateRadiusPX,
+//	         cost g/MaxGapS + d/(MaxGateRadiusPX + vmax g) (the distance
+//	         scale does not vanish for short gaps, so that a short gap
+//	         with a jump is still preferred to a long one);
+//	sitting: g <= MaxCoastStillS, d <= MinGateRadiusPX and va <=
+//	         2 StillSpeedPXPerS (a was about still when it vanished),
 //	         cost g/MaxCoastStillS + d/MinGateRadiusPX;
 //
 // the cheaper one is used. Each cost lies in [0, 2]: a shorter gap and a
@@ -88,16 +99,58 @@ func gapLinkCost(a, b fragment, s Settings, box frameBox) (cost float64, cut int
 	g := float64(sb.Frame-ea.Frame) / s.FPS
 	d := math.Hypot(sb.XPX-ea.XPX, sb.YPX-ea.YPX)
 	c := math.Inf(1)
-	reach := s.MinGateRadiusPX + s.MaxSpeedPXPerS*g
-	longOK := g <= s.MaxCoastMovingS || d <= s.MaxGateRadiusPX ||
-		(box.nearEdge(ea, s.MaxGateRadiusPX) && box.nearEdge(sb, s.MaxGateRadiusPX))
-	if g <= s.MaxGapS && d <= reach && longOK {
-		c = g/s.MaxGapS + d/reach
+	win := s.frames(s.SpeedWindowS)
+	va := speedBefore(a.points, cut, win, s.FPS)
+	if cut == len(a.points)-1 {
+		// A turn within the window hides speed from the displacement.
+		va = math.Max(va, a.endSpeedPXPS)
 	}
-	if g <= s.MaxCoastStillS && d <= s.MinGateRadiusPX && s.MinGateRadiusPX > 0 {
+	vmax := math.Min(s.MaxSpeedPXPerS, 2*math.Max(va, speedAfter(b.points, win, s.FPS))+s.StillSpeedPXPerS)
+	reach := s.MinGateRadiusPX + vmax*g
+	longOK := g <= s.MaxCoastMovingS || d <= s.MaxGateRadiusPX ||
+		(box.nearEdge(ea, s.EdgeMarginPX) && box.nearEdge(sb, s.EdgeMarginPX))
+	if g <= s.MaxGapS && d <= reach && longOK {
+		c = g/s.MaxGapS + d/(s.MaxGateRadiusPX+vmax*g)
+	}
+	if g <= s.MaxCoastStillS && d <= s.MinGateRadiusPX && s.MinGateRadiusPX > 0 && va <= 2*s.StillSpeedPXPerS {
 		c = math.Min(c, g/s.MaxCoastStillS+d/s.MinGateRadiusPX)
 	}
 	return c + penalty, cut
+}
+
+// speedBefore is the straight-line speed, px/s, between the earliest
+// observed point within win frames before pts[idx] and pts[idx]; 0 if
+// there is none.
+func speedBefore(pts []Point, idx, win int, fps float64) float64 {
+	last := pts[idx]
+	first := -1
+	for i := idx - 1; i >= 0 && last.Frame-pts[i].Frame <= win; i-- {
+		if pts[i].Observed {
+			first = i
+		}
+	}
+	if first < 0 {
+		return 0
+	}
+	p := pts[first]
+	return math.Hypot(last.XPX-p.XPX, last.YPX-p.YPX) * fps / float64(last.Frame-p.Frame)
+}
+
+// speedAfter is the straight-line speed, px/s, between pts[0] and the
+// latest observed point within win frames after it; 0 if there is none.
+func speedAfter(pts []Point, win int, fps float64) float64 {
+	first := pts[0]
+	last := -1
+	for i := 1; i < len(pts) && pts[i].Frame-first.Frame <= win; i++ {
+		if pts[i].Observed {
+			last = i
+		}
+	}
+	if last < 0 {
+		return 0
+	}
+	p := pts[last]
+	return math.Hypot(p.XPX-first.XPX, p.YPX-first.YPX) * fps / float64(p.Frame-first.Frame)
 }
 
 // closeGaps joins fragments end to start (see gapLinkCost; box is the
@@ -209,7 +262,7 @@ func closeGaps(frags []fragment, s Settings, box frameBox) []fragment {
 		if hasPrev[i] {
 			continue
 		}
-		f := fragment{ids: append([]int(nil), frags[i].ids...), points: append([]Point(nil), frags[i].points...)}
+		f := fragment{ids: append([]int(nil), frags[i].ids...), points: append([]Point(nil), frags[i].points...), endSpeedPXPS: frags[i].endSpeedPXPS}
 		for prev, j := i, next[i]; j >= 0; prev, j = j, next[j] {
 			// Drop prev's tail after the cut (nothing without overlap).
 			f.points = f.points[:len(f.points)-(len(frags[prev].points)-1-cutAt[prev])]
@@ -222,6 +275,7 @@ func closeGaps(frags []fragment, s Settings, box frameBox) []fragment {
 			f.points = append(f.points, gap...)
 			f.points = append(f.points, frags[j].points...)
 			f.ids = append(f.ids, frags[j].ids...)
+			f.endSpeedPXPS = frags[j].endSpeedPXPS
 		}
 		out = append(out, f)
 	}

@@ -89,6 +89,7 @@ type ltrack struct {
 	pendingGap   int     // frames since the latest pending detection
 	lastReliable int     // index in points of the latest reliable detection
 	speedPXPS    float64 // recent speed at the latest reliable detection, px/s
+	kfSpeedPXPS  float64 // filter speed after that detection, px/s
 	// anchor is the filtered position and its covariance at the latest
 	// reliable detection; a still track coasts there.
 	anchorX, anchorY float64
@@ -122,8 +123,9 @@ func (l *Linker) Settings() Settings { return l.s }
 // frame; a skipped frame counts as a frame without detections) and returns
 // which detection went to which confirmed track, in detection order. A
 // track confirmed in this frame is included; a merged blob appears once
-// for each of its tracks. The frame argument is authoritative; the Frame field
-// of the detections is not read.
+// for each of its tracks. The frame argument is authoritative; the Frame
+// field of the detections is not read. Step panics if a detection's
+// position is not finite.
 func (l *Linker) Step(frame int, dets []Detection) []Assignment {
 	if l.finished {
 		panic("link: Step after Finish")
@@ -245,21 +247,24 @@ func (l *Linker) Step(frame int, dets []Detection) []Assignment {
 	return out
 }
 
-// findMerges looks for two confirmed tracks whose bees have merged into
-// one blob: a track u left without a detection, another track m within
+// findMerges looks for two confirmed moving tracks whose bees have merged
+// into one blob: a track u left without a detection, another track m within
 // MergeRadiusPX of u's prediction that got detection j, and j inside u's
 // gate. Both are then marked merged with j (the closest m wins): neither
 // filter is updated with the blob's centroid, which lies between the bees
-// and would bend both velocities, and both predict on undamped.
+// and would bend both velocities, and both predict on undamped. Still
+// tracks take no part: a still track holds its place anyway (a bee flying
+// over a sitting one costs the flier a few coasted frames), and a still
+// track is also what flickering foliage makes.
 func (l *Linker) findMerges(conf []*ltrack, dets []Detection, detTrack []*ltrack, matched map[*ltrack]bool) {
 	for _, u := range conf {
-		if matched[u] || u.mergedWith >= 0 {
+		if matched[u] || u.mergedWith >= 0 || l.still(u) {
 			continue
 		}
 		ux, uy, _, _ := u.kf.State()
 		best, bestD := -1, math.Inf(1)
 		for j, m := range detTrack {
-			if m == nil || m.id == 0 || m == u {
+			if m == nil || m.id == 0 || m == u || l.still(m) {
 				continue
 			}
 			mx, my, _, _ := m.kf.State()
@@ -451,7 +456,9 @@ func (l *Linker) reliable(t *ltrack) {
 	t.misses, t.pendingHits, t.pendingGap = 0, 0, 0
 	t.lastReliable = len(t.points) - 1
 	t.speedPXPS = l.recentSpeed(t)
-	t.anchorX, t.anchorY, _, _ = t.kf.State()
+	var vx, vy float64
+	t.anchorX, t.anchorY, vx, vy = t.kf.State()
+	t.kfSpeedPXPS = math.Hypot(vx, vy)
 	t.anchorCov = t.kf.PosCov()
 }
 
@@ -487,8 +494,12 @@ func (l *Linker) miss(t *ltrack, frame int) {
 	t.pendingGap++
 }
 
-// still reports whether t's recent speed is at most StillSpeedPXPerS.
-func (l *Linker) still(t *ltrack) bool { return t.speedPXPS <= l.s.StillSpeedPXPerS }
+// still reports whether t's recent speed is at most StillSpeedPXPerS, by
+// both the straight-line speed over SpeedWindowS (which a quick turn can
+// hide) and the filter's speed at the latest reliable detection.
+func (l *Linker) still(t *ltrack) bool {
+	return math.Max(t.speedPXPS, t.kfSpeedPXPS) <= l.s.StillSpeedPXPerS
+}
 
 // prune drops tentative tracks that missed too often and ends confirmed
 // tracks that coasted too long or left the frame.
@@ -597,7 +608,7 @@ func (l *Linker) Finish() []Track {
 			}
 		}
 		if n >= l.s.MinObservedPoints {
-			frags = append(frags, fragment{ids: []int{t.id}, points: interpolateCoasted(t.points)})
+			frags = append(frags, fragment{ids: []int{t.id}, points: interpolateCoasted(t.points), endSpeedPXPS: t.kfSpeedPXPS})
 		}
 	}
 	l.ended = nil

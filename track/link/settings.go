@@ -26,8 +26,9 @@ type Settings struct {
 
 	// AccelSigmaPXPerS2 is the standard deviation of the acceleration in
 	// the discrete white-noise acceleration model, px/s^2 (> 0). Default
-	// 300 BL/s^2 (about 3.6 m/s^2 for a 12 mm bee). Larger values follow
-	// sharp turns better and widen the gate. With Model ContinuousWNA the
+	// 100 BL/s^2 (about 1.2 m/s^2 for a 12 mm bee). Larger values follow
+	// sharp turns better but give noisier velocities and wider gates;
+	// turns the filter misses are repaired by gap closing. With Model ContinuousWNA the
 	// power spectral density is taken as AccelSigmaPXPerS2^2 / FPS, which
 	// gives the same velocity variance per frame.
 	AccelSigmaPXPerS2 float64
@@ -68,7 +69,7 @@ type Settings struct {
 
 	// MaxMergeS: two tracks merged for longer than this are taken to
 	// follow the same bee, and all but the one with the most detections
-	// end, s (> 0). Default 1 s.
+	// end, s (> 0). Default 2 s.
 	MaxMergeS float64
 
 	// StationaryRadiusPX: Finish drops a track that starts after the
@@ -141,7 +142,9 @@ type Settings struct {
 
 	// MaxGapS is the longest gap that gap closing bridges between a track
 	// ending and another starting elsewhere (exit and re-entry at the
-	// frame border, occlusion), s (> 0). Default 3 s. Gaps longer than
+	// frame border, occlusion), s (> 0). Default 5 s. Longer values join
+	// more exits and re-entries but also join different bees leaving and
+	// arriving at the border. Gaps longer than
 	// MaxCoastMovingS in mid-picture are bridged only over at most
 	// MaxGateRadiusPX. A gap of up to MaxCoastStillS is bridged if both
 	// ends are within MinGateRadiusPX (a bee that sat unseen where it
@@ -152,6 +155,11 @@ type Settings struct {
 	// is dropped as noise before gap closing, >= 1. Default
 	// max(MinHitsToConfirm, ceil(0.2 FPS)).
 	MinObservedPoints int
+
+	// EdgeMarginPX: gap closing takes a track end or start within this
+	// distance of the frame's border for an exit from or an entry into
+	// the picture, px (> 0). Default 2 BL.
+	EdgeMarginPX float64
 
 	// BoundsPX is the frame rectangle. When set (not empty), a confirmed
 	// track that has no detection in a frame and whose prediction lies
@@ -205,10 +213,13 @@ func (s Settings) withDefaults() Settings {
 		s.MergeRadiusPX = bl("MergeRadiusPX")
 	}
 	if s.MaxMergeS == 0 {
-		s.MaxMergeS = 1
+		s.MaxMergeS = 2
+	}
+	if s.EdgeMarginPX == 0 {
+		s.EdgeMarginPX = 2 * bl("EdgeMarginPX")
 	}
 	if s.StationaryRadiusPX == 0 {
-		s.StationaryRadiusPX = 1.5 * bl("StationaryRadiusPX")
+		s.StationaryRadiusPX = -1 // TEMP
 	}
 	if s.MinHitsToConfirm == 0 {
 		s.MinHitsToConfirm = 3
@@ -238,7 +249,7 @@ func (s Settings) withDefaults() Settings {
 		s.CoastVelHalfLifeS = 0.1
 	}
 	if s.MaxGapS == 0 {
-		s.MaxGapS = 3
+		s.MaxGapS = 5
 	}
 	if s.MinObservedPoints == 0 {
 		s.MinObservedPoints = max(s.MinHitsToConfirm, int(math.Ceil(0.2*s.FPS)))
@@ -266,6 +277,7 @@ func (s Settings) validate() {
 	pos("MaxSpeedPXPerS", s.MaxSpeedPXPerS)
 	pos("MaxGapS", s.MaxGapS)
 	pos("MaxMergeS", s.MaxMergeS)
+	pos("EdgeMarginPX", s.EdgeMarginPX)
 	switch {
 	case !(s.GateProbability > 0 && s.GateProbability < 1):
 		panic(fmt.Sprintf("link: GateProbability %v not in (0, 1)", s.GateProbability))

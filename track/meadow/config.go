@@ -144,8 +144,9 @@ type Config struct {
 	BeeWings bool `json:"bee_wings,omitempty"`
 	// BeeBanding: draw two yellow bands across the body.
 	BeeBanding bool `json:"bee_banding,omitempty"`
-	// Occluder: draw a leaf above the flowers across one of bee 0's flight
-	// paths; bees pass behind it.
+	// Occluder: draw a leaf above the flowers across one of the bees'
+	// flight paths (bee 0's if possible); bees pass behind it. The bees are
+	// re-planned until some flight passes a place clear of flowers.
 	Occluder bool `json:"occluder,omitempty"`
 	// IlluminationDrift: amplitude of the slow change of scene brightness
 	// (passing clouds) as a fraction of brightness. Range [0, 0.5].
@@ -413,8 +414,11 @@ func PresetNames() []string {
 //	highspeed  1 bee, 1280x720 @ 120 fps, 5 s
 //	demo       2 bees, 1280x720 @ 30 fps, 45 s, white clover and borage in an invented allotment bed
 //
-// All presets switch on texture, vegetation, wind, flower sway, shadows,
-// wings, banding, illumination drift, flicker and noise.
+// All presets switch on texture (1), vegetation (60 blades, 120 in windy),
+// wind (3 px, 14 px in windy), flower sway (1.5 px, 6 px in windy),
+// shadows, wings, banding, illumination drift (6 %), flicker (2 %), noise
+// (2.5 grey levels) and motion blur (1/250 s exposure, 1/1000 s in
+// highspeed).
 func Preset(name string) (Config, error) {
 	f, ok := presets[name]
 	if !ok {

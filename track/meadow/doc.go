@@ -45,13 +45,20 @@
 // bumblebee worker, width half the length; edge width max(1.2 px, 7 % of
 // the length)) drawn with analytic anti-aliased coverage at sub-pixel
 // position, oriented along the heading. BeeBanding adds two yellow bands
-// at ±0.2 body lengths; BeeWings adds a translucent wing blur on both sides
-// of airborne bees whose opacity flickers from frame to frame (0.15-0.40);
+// at ±0.2 body lengths; BeeWings adds a translucent wing blur (two
+// ellipses 0.6 x 0.3 body lengths beside the body) to airborne bees, its
+// opacity flickering from frame to frame (0.15-0.40); ExposureS smears the
+// body along its motion over the distance travelled during the exposure
+// (1/250 s in the presets: about 4 px at 500 mm/s and 2.13 px/mm);
 // BeeShadow adds a soft shadow down-right of the bee, 0.12 body lengths
-// away when landed and up to 1.2 body lengths when flying. Bands and wings
-// are symmetric about the body centre, so the darkness-weighted centroid of
-// the bee is its truth point (measured error below 0.02 px); the shadow
-// moves that centroid and is therefore off in that measurement.
+// away and 30 % dark when landed, up to 1.2 body lengths away and 14 %
+// dark when flying. Bands, wings and motion blur are symmetric about the
+// body centre, so the darkness-weighted centroid of the bee (frame without
+// bees minus frame) is its truth point: measured error below 0.04 px with
+// every one of them on, and with camera shake. The shadow moves that
+// centroid (by up to 5 px for a flying bee when the whole shadow is
+// counted) and is therefore off in that measurement; a segmentation that
+// thresholds darkness keeps the bee and drops most of the shadow.
 //
 // Behaviour: each bee enters from beyond a frame edge at a time in
 // [0, EntryMaxS] and repeatedly chooses a flower (nearer flowers likelier;
@@ -80,10 +87,10 @@
 // with new random streams until enough close passes of airborne bees
 // occur. New fails if they cannot be met.
 //
-// Occluder (Occluder): a leaf (4.8 x 1.8 body lengths) held above the
+// Occluder (Occluder): a leaf (6 x 2.2 body lengths) held above the
 // flowers across the middle of one of bee 0's flights; bees pass behind it.
 // TruthPoint.Visible is false while the body with its soft edge lies wholly
-// under the leaf.
+// under the leaf (wing blur and shadow may still show beside it).
 //
 // Camera and sensor, applied in this order after drawing:
 //   - ShakePX: camera shake, a translation of the whole image by two sines

@@ -27,7 +27,7 @@ func (s *Scene) placeLeaf() {
 	}
 	cfg := &s.cfg
 	L := s.bees[0].lenPX
-	a, bb := 2.4*L, 0.9*L
+	a, bb := 3*L, 1.1*L
 	var cand []leaf
 	for _, b := range s.bees {
 		for _, sg := range b.plan.segs {

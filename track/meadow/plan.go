@@ -76,6 +76,7 @@ type action struct {
 	kind      actKind
 	handlingS float64 // landing: handling time, s (0: draw)
 	revisit   bool    // land on a flower landed on before
+	nearest   bool    // go to the nearest flower
 	exitAfter bool    // leave the frame after the landing
 }
 
@@ -204,6 +205,17 @@ func (p *planner) pickFlower(b *beePlan, c *cursor, revisit bool) int {
 		}
 	}
 	return 0
+}
+
+// nearestFlower returns the flower nearest the cursor.
+func (p *planner) nearestFlower(c *cursor) int {
+	best, bestD := 0, math.Inf(1)
+	for i, f := range p.fs {
+		if d := math.Hypot(f.x-c.x, f.y-c.y) - f.r; d < bestD && i != c.flower {
+			best, bestD = i, d
+		}
+	}
+	return best
 }
 
 // visit appends the approach to flower fi and either an inspection (hover,
@@ -336,8 +348,10 @@ func (p *planner) script() []action {
 	short := func() float64 { return p.uniform(1.5, 3) }
 	landings := 0
 	if cfg.MinLongLandingS > 0 {
-		h := math.Max(p.handling(), cfg.MinLongLandingS+1)
-		s = append(s, action{kind: actLand, handlingS: h})
+		// Two frame periods of margin for the rounding of the landing to
+		// whole frames.
+		h := math.Max(p.handling(), cfg.MinLongLandingS+2/cfg.FPS)
+		s = append(s, action{kind: actLand, handlingS: h, nearest: true})
 		landings++
 	}
 	for i := 0; i < cfg.MinInspections; i++ {
@@ -359,7 +373,11 @@ func (p *planner) script() []action {
 // planBee plans one bee from its entry until the end of the clip.
 func (p *planner) planBee(id int, lenPX float64, script []action) *beePlan {
 	b := &beePlan{id: id, lenPX: lenPX}
-	c := cursor{t: p.rng.Float64() * p.cfg.EntryMaxS, flower: -1}
+	entry := p.cfg.EntryMaxS
+	if len(script) > 0 && script[0].nearest {
+		entry = math.Min(entry, 0.5) // a long landing first: enter early
+	}
+	c := cursor{t: p.rng.Float64() * entry, flower: -1}
 	c.x, c.y = p.edgePoint(lenPX, -1, -1)
 	c.v = p.cruise()
 	for c.t < p.tEnd {
@@ -373,7 +391,12 @@ func (p *planner) planBee(id int, lenPX float64, script []action) *beePlan {
 				a.kind = actInspect
 			}
 		}
-		fi := p.pickFlower(b, &c, a.revisit)
+		var fi int
+		if a.nearest {
+			fi = p.nearestFlower(&c)
+		} else {
+			fi = p.pickFlower(b, &c, a.revisit)
+		}
 		landed := p.visit(b, &c, fi, a)
 		if landed && a.exitAfter && c.t < p.tEnd {
 			p.leave(b, &c)

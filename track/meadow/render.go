@@ -243,7 +243,7 @@ func (s *Scene) Render(i int, dst *gocv.Mat) {
 	}
 	cfg := &s.cfg
 	w, h := cfg.WidthPX, cfg.HeightPX
-	if dst.Empty() || dst.Rows() != h || dst.Cols() != w || dst.Type() != gocv.MatTypeCV8UC3 || !dst.IsContinuous() {
+	if dst.Ptr() == nil || dst.Empty() || dst.Rows() != h || dst.Cols() != w || dst.Type() != gocv.MatTypeCV8UC3 || !dst.IsContinuous() {
 		if dst.Ptr() != nil {
 			dst.Close()
 		}
@@ -352,10 +352,17 @@ func (s *Scene) drawFlowers(img *gocv.Mat, t float64) {
 			semiL := (outer - inner) / 2
 			semiW := math.Max(1, k.petalWidth*(outer-inner))
 			rc := inner + semiL
+			// Each petal: a darker outline, then the petal, so that
+			// overlapping petals stay apart.
+			edge := shade(k.petalBGR, 0.8)
+			if layer == 1 {
+				edge = shade(k.petalBGR, 0.72)
+			}
 			for p := 0; p < k.petals; p++ {
 				a := rot + 2*math.Pi*float64(p)/float64(k.petals)
-				gocv.EllipseWithParams(img, image.Pt(fx(cx+rc*math.Cos(a)), fx(cy+rc*math.Sin(a))),
-					image.Pt(fx(semiL), fx(semiW)), a*180/math.Pi, 0, 360, col, -1, gocv.LineAA, drawShift)
+				c := image.Pt(fx(cx+rc*math.Cos(a)), fx(cy+rc*math.Sin(a)))
+				gocv.EllipseWithParams(img, c, image.Pt(fx(semiL+0.6), fx(semiW+0.6)), a*180/math.Pi, 0, 360, edge, -1, gocv.LineAA, drawShift)
+				gocv.EllipseWithParams(img, c, image.Pt(fx(semiL-0.4), fx(math.Max(0.5, semiW-0.4))), a*180/math.Pi, 0, 360, col, -1, gocv.LineAA, drawShift)
 			}
 		}
 		cr := k.centreFrac * f.r
@@ -395,7 +402,7 @@ func (s *Scene) drawBees(img *gocv.Mat, i int, frng *rand.Rand) {
 			off := (0.12 + 0.55*hgt) * b.lenPX
 			sx, sy := b.x[i]+0.5*off, b.y[i]+0.85*off
 			soft := 0.2*b.lenPX + 0.15*hgt*b.lenPX
-			depth := 0.38 / (1 + 0.4*hgt)
+			depth := 0.3 / (1 + 0.6*hgt)
 			paintEllipse(d, w, h, sx, sy, b.head[i], 0.52*b.lenPX, 0.28*b.lenPX, soft, func(px []uint8, c float64) {
 				f := 1 - depth*c
 				px[0] = uint8(float64(px[0])*f + 0.5)

@@ -136,7 +136,7 @@ func (s *Scene) sample() {
 	cfg := &s.cfg
 	n := s.n
 	maxTurn := 1200 * math.Pi / 180 / cfg.FPS // rad per frame
-	tau := 0.15                              // height smoothing, s
+	tau := 0.15                               // height smoothing, s
 	alpha := 1 - math.Exp(-1/(cfg.FPS*tau))
 	for _, b := range s.bees {
 		b.present = make([]bool, n)
@@ -420,6 +420,9 @@ func (s *Scene) unmet() []string {
 		if n := s.reentries(0); n < cfg.MinExits {
 			out = append(out, fmt.Sprintf("%d exits with re-entry, want %d (MinExits)", n, cfg.MinExits))
 		}
+	}
+	if cfg.Occluder && s.leaf == nil {
+		out = append(out, "no flight passes a place clear of flowers for the occluder leaf (Occluder)")
 	}
 	if cfg.MinCrossings > 0 && len(tr.Crossings) < cfg.MinCrossings {
 		out = append(out, fmt.Sprintf("%d close passes, want %d (MinCrossings)", len(tr.Crossings), cfg.MinCrossings))

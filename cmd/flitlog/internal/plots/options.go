@@ -40,9 +40,9 @@ type Options struct {
 	// default 0 means 12.
 	MaxTracks int
 	// BackgroundFade lightens the background frame of PathPlot towards
-	// white after turning it grey, so coloured tracks stand out. Range
-	// 0..1 (0 keeps the grey frame, 1 is white); default 0 means 0.5;
-	// negative means no fading at all.
+	// white after turning it grey, so coloured tracks stand out:
+	// v' = v (1 - fade) + 255 fade. Range 0..1 (1 is white); default 0
+	// means 0.5; negative keeps the grey frame as it is.
 	BackgroundFade float64
 }
 
@@ -325,14 +325,14 @@ func labelBox(c draw.Canvas, sty text.Style, pt vg.Point, txt string, pad vg.Len
 }
 
 // selectTracks returns the indices of the tracks to draw: all of them in
-// input order when there are at most max, else the max tracks with the
+// input order when there are at most maxTracks, else the maxTracks with the
 // most samples (ties: lower ID first), in ID order.
-func selectTracks(tracks []kinematics.Result, max int) []int {
+func selectTracks(tracks []kinematics.Result, maxTracks int) []int {
 	idx := make([]int, len(tracks))
 	for i := range idx {
 		idx[i] = i
 	}
-	if len(tracks) <= max {
+	if len(tracks) <= maxTracks {
 		return idx
 	}
 	sortStable(idx, func(a, b int) bool {
@@ -342,7 +342,7 @@ func selectTracks(tracks []kinematics.Result, max int) []int {
 		}
 		return tracks[a].ID < tracks[b].ID
 	})
-	idx = idx[:max]
+	idx = idx[:maxTracks]
 	sortStable(idx, func(a, b int) bool {
 		if tracks[a].ID != tracks[b].ID {
 			return tracks[a].ID < tracks[b].ID

@@ -153,12 +153,27 @@ func fadeGrey(img image.Image, fade float64) *image.Gray {
 	if fade < 0 {
 		fade = 0
 	}
+	var lut [256]uint8
+	for v := range lut {
+		lut[v] = uint8(float64(v)*(1-fade) + 255*fade + 0.5)
+	}
 	b := img.Bounds()
 	out := image.NewGray(image.Rect(0, 0, b.Dx(), b.Dy()))
-	for y := b.Min.Y; y < b.Max.Y; y++ {
-		for x := b.Min.X; x < b.Max.X; x++ {
-			v := float64(color.GrayModel.Convert(img.At(x, y)).(color.Gray).Y)
-			out.Pix[(y-b.Min.Y)*out.Stride+(x-b.Min.X)] = uint8(v*(1-fade) + 255*fade + 0.5)
+	switch src := img.(type) {
+	case *image.RGBA: // fast path, same luma formula as color.GrayModel
+		for y := 0; y < b.Dy(); y++ {
+			row := src.Pix[src.PixOffset(b.Min.X, b.Min.Y+y):]
+			for x := 0; x < b.Dx(); x++ {
+				r, g, bl := uint32(row[4*x])*0x101, uint32(row[4*x+1])*0x101, uint32(row[4*x+2])*0x101
+				out.Pix[y*out.Stride+x] = lut[(19595*r+38470*g+7471*bl+1<<15)>>24]
+			}
+		}
+	default:
+		for y := b.Min.Y; y < b.Max.Y; y++ {
+			for x := b.Min.X; x < b.Max.X; x++ {
+				v := color.GrayModel.Convert(img.At(x, y)).(color.Gray).Y
+				out.Pix[(y-b.Min.Y)*out.Stride+(x-b.Min.X)] = lut[v]
+			}
 		}
 	}
 	return out
@@ -380,14 +395,38 @@ func (tp *trackPlotter) Plot(c draw.Canvas, p *plot.Plot) {
 		lab := tp.f.style(0.9)
 		lab.Font.Weight = xfont.WeightBold
 		lab.Color = col
-		lab.YAlign = draw.YCenter
-		pt := toVG(t.Samples[first])
-		pt.X += tp.f.pt(10)
-		if pt.X+lab.Width(fmt.Sprint(t.ID))+tp.f.pt(4) > c.Max.X {
-			lab.XAlign = draw.XRight
-			pt.X -= tp.f.pt(20)
+		// Put it on the side (right, left, above, below) most opposite
+		// to where the bee flies off to, among those with room.
+		txt := fmt.Sprint(t.ID)
+		at := toVG(t.Samples[first])
+		ahead := toVG(t.Samples[min(first+10, last)])
+		dx, dy := float64(ahead.X-at.X), float64(ahead.Y-at.Y)
+		off := tp.f.pt(10)
+		tw, th := lab.Width(txt)+tp.f.pt(4), lab.Height(txt)+tp.f.pt(4)
+		type side struct {
+			ux, uy float64
+			xa     draw.XAlignment
+			ya     draw.YAlignment
 		}
-		labelBox(c, lab, pt, fmt.Sprint(t.ID), tp.f.pt(1.5))
+		best, bestScore := -1, math.Inf(-1)
+		sides := []side{{1, 0, draw.XLeft, draw.YCenter}, {-1, 0, draw.XRight, draw.YCenter},
+			{0, 1, draw.XCenter, draw.YBottom}, {0, -1, draw.XCenter, draw.YTop}}
+		for k, sd := range sides {
+			p := vg.Point{X: at.X + vg.Length(sd.ux)*off, Y: at.Y + vg.Length(sd.uy)*off}
+			fits := p.X+vg.Length(sd.ux-1)/2*tw >= c.Min.X && p.X+vg.Length(sd.ux+1)/2*tw <= c.Max.X &&
+				p.Y+vg.Length(sd.uy-1)/2*th >= c.Min.Y && p.Y+vg.Length(sd.uy+1)/2*th <= c.Max.Y
+			score := -(sd.ux*dx + sd.uy*dy)
+			if !fits {
+				score -= 1e9
+			}
+			if score > bestScore {
+				best, bestScore = k, score
+			}
+		}
+		sd := sides[best]
+		lab.XAlign, lab.YAlign = sd.xa, sd.ya
+		pt := vg.Point{X: at.X + vg.Length(sd.ux)*off, Y: at.Y + vg.Length(sd.uy)*off}
+		labelBox(c, lab, pt, txt, tp.f.pt(1.5))
 		for _, g := range tp.endGlyphs(col) {
 			c.DrawGlyph(g, toVG(t.Samples[last]))
 		}

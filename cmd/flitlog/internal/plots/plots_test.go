@@ -461,3 +461,23 @@ func TestNoGocvImport(t *testing.T) {
 		t.Error("no imports found: the check did not look at the package")
 	}
 }
+
+// The *image.RGBA fast path of fadeGrey agrees with the generic path
+// (color.GrayModel) on every pixel.
+func TestFadeGreyFastPath(t *testing.T) {
+	rgba := image.NewRGBA(image.Rect(3, 5, 67, 41)) // offset bounds on purpose
+	for i := range rgba.Pix {
+		rgba.Pix[i] = uint8(i*37 + i/5)
+	}
+	for i := 3; i < len(rgba.Pix); i += 4 {
+		rgba.Pix[i] = 255 // opaque, as video frames are
+	}
+	nrgba := image.NewNRGBA(rgba.Bounds()) // takes the generic path
+	copy(nrgba.Pix, rgba.Pix)
+	for _, fade := range []float64{-1, 0, 0.5, 1} {
+		a, b := fadeGrey(rgba, fade), fadeGrey(nrgba, fade)
+		if !bytes.Equal(a.Pix, b.Pix) || a.Bounds() != b.Bounds() {
+			t.Errorf("fade %g: fast and generic paths differ", fade)
+		}
+	}
+}

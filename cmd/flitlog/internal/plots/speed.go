@@ -42,11 +42,11 @@ type speedPanel struct {
 }
 
 func renderSpeed(tracks []kinematics.Result, opt Options) (*figure, []speedPanel, error) {
-	max := opt.MaxTracks
-	if max == 0 {
-		max = defaultMaxTracks
+	maxTracks := opt.MaxTracks
+	if maxTracks <= 0 {
+		maxTracks = defaultMaxTracks
 	}
-	n := min(len(tracks), max)
+	n := min(len(tracks), maxTracks)
 	opt, err := opt.resolved(1600, int(math.Max(900, float64(160+260*n))))
 	if err != nil {
 		return nil, nil, err
