@@ -29,6 +29,7 @@ type segParams struct {
 	maxLenPX       float64 // longest ellipse major axis accepted, px of the frame
 	minWidthPX     float64 // shortest ellipse minor axis accepted, px of the frame
 	minAreaPX      float64 // least foreground area of a detection, px of the frame
+	splitAreaPX    float64 // least foreground area of a blob split among track predictions, px
 	maxElong       float64 // largest major/minor ratio accepted
 	actTauS        float64 // time constant of the foreground frequency, s
 	maxActivity    float64 // foreground frequency above which a pixel is unstable
@@ -97,6 +98,11 @@ type segmenter struct {
 	small          gocv.Mat // colour working image (8UC3)
 	muBGR          gocv.Mat // colour background (32FC3)
 	colourStarted  bool
+
+	seeds []protectZone // predicted positions of confirmed tracks, this frame
+	pix   []pixel       // scratch of refine
+	part  []pixel       // scratch of split
+	lab   []int         // scratch of split
 }
 
 func newSegmenter(p segParams, frameW, frameH int, roi gocv.Mat) *segmenter {
@@ -171,7 +177,8 @@ func alpha(dtS, tauS float64) float64 { return 1 - math.Exp(-dtS/tauS) }
 // detect segments one frame (8-bit BGR, full size) at time tS and returns
 // the bee candidates. zones are where confirmed bees are expected (the
 // linker's predictions). The model is not updated; call learn next.
-func (s *segmenter) detect(frame gocv.Mat, index int, tS float64, zones []protectZone) []Detection {
+func (s *segmenter) detect(frame gocv.Mat, index int, tS float64, zones, seeds []protectZone) []Detection {
+	s.seeds = seeds
 	if frame.Cols() != s.frameW || frame.Rows() != s.frameH || frame.Type() != gocv.MatTypeCV8UC3 {
 		panic(fmt.Sprintf("track: frame %d is %dx%d %v, want %dx%d CV8UC3", index, frame.Cols(), frame.Rows(), frame.Type(), s.frameW, s.frameH))
 	}
@@ -444,9 +451,7 @@ func (s *segmenter) blobs(index int) []Detection {
 			continue
 		}
 		box := image.Rect(int(r[0]), int(r[1]), int(r[0]+r[2]), int(r[1]+r[3]))
-		if b, ok := s.refine(c, int32(i), box); ok {
-			frags = append(frags, b)
-		}
+		frags = append(frags, s.refine(c, int32(i), box)...)
 	}
 	frags = mergeFragments(frags, p.beeLenPX)
 	var out []Detection
@@ -464,6 +469,7 @@ type blob struct {
 	m0, mx, my, mxx, mxy, myy float64
 	area, body                int // foreground and body pixels
 	box                       image.Rectangle
+	seed                      int // index of the track prediction it belongs to, -1 if none
 }
 
 // shape returns the centroid, the full axes of the moment ellipse and the
@@ -489,6 +495,7 @@ func (b blob) merged(o blob) blob {
 		m0: b.m0 + o.m0, mx: b.mx + o.mx, my: b.my + o.my,
 		mxx: b.mxx + o.mxx, mxy: b.mxy + o.mxy, myy: b.myy + o.myy,
 		area: b.area + o.area, body: b.body + o.body, box: b.box.Union(o.box),
+		seed: max(b.seed, o.seed),
 	}
 }
 
@@ -503,6 +510,9 @@ func mergeFragments(fr []blob, bl float64) []blob {
 		for i := range fr {
 			xi, yi, _, _, _ := fr[i].shape()
 			for j := i + 1; j < len(fr); j++ {
+				if fr[i].seed >= 0 && fr[j].seed >= 0 && fr[i].seed != fr[j].seed {
+					continue // parts of two different tracked bees
+				}
 				xj, yj, _, _, _ := fr[j].shape()
 				if d := math.Hypot(xi-xj, yi-yj); d < best {
 					if _, _, maj, _, _ := fr[i].merged(fr[j]).shape(); maj <= 1.3*bl {
@@ -556,7 +566,7 @@ type refineCtx struct {
 // covers (the lower bound of the brightness-ratio test for shadow pixels of
 // Cucchiara et al. 2003, rho = ShadowRatio). So every pixel enters the
 // moments with weight w = max(0, rho b - I), how much darker it is than any
-// shadow could make it:
+// shadow could make it (pixels collected in s.pix):
 //
 //	xc = sum w x / sum w,  yc = sum w y / sum w,
 //	C  = sum w (p - pc)(p - pc)' / sum w,
@@ -565,8 +575,12 @@ type refineCtx struct {
 // pull aside. The fitted ellipse has full axes 4 sqrt(lambda_1,2) of C
 // (exact for a uniform ellipse) and orientation 0.5 atan2(2 C_xy, C_xx -
 // C_yy). A blob with fewer than minBodyPX pixels with w > 0 is a shadow or
-// a dimmed patch, not a bee, and is dropped.
-func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) (blob, bool) {
+// a dimmed patch, not a bee, and is dropped (by blob.detection).
+//
+// A blob at least splitAreaPX large that holds the predicted positions of
+// two or more confirmed tracks is two bees touching: it is split among
+// them (split).
+func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) []blob {
 	p := s.p
 	k := p.factor
 	kf := float64(k)
@@ -598,15 +612,12 @@ func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) (blob, b
 		b := float64(img[iv1*W+iu])*(1-fu) + float64(img[iv1*W+iu1])*fu
 		return a*(1-fv) + b*fv
 	}
-	var m0, m1x, m1y, m2xx, m2xy, m2yy float64
-	area, body := 0, 0
-	bx0, by0, bx1, by1 := x1, y1, x0, y0
 	g := s.gain
 	rho := p.shadowRatio
+	s.pix = s.pix[:0]
 	for y := y0; y < y1; y++ {
 		cy := int(math.Floor((float64(y) - sy) / kf))
 		v := (float64(y) - sy - half) / kf
-		fy := float64(y - y0)
 		for x := x0; x < x1; x++ {
 			cx := int(math.Floor((float64(x) - sx) / kf))
 			if !member(cx, cy) {
@@ -615,37 +626,147 @@ func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) (blob, b
 			u := (float64(x) - sx - half) / kf
 			b := bilin(c.mu, u, v)
 			I := g * float64(c.grey[y*s.frameW+x])
-			if dd := b - I; dd > math.Max(math.Sqrt(p.thresh2*bilin(c.vr, u, v)), p.minContrast) {
-				area++
-				bx0, by0 = min(bx0, x), min(by0, y)
-				bx1, by1 = max(bx1, x+1), max(by1, y+1)
+			fg := b-I > math.Max(math.Sqrt(p.thresh2*bilin(c.vr, u, v)), p.minContrast)
+			w := math.Max(0, rho*b-I)
+			if fg || w > 0 {
+				s.pix = append(s.pix, pixel{x: int32(x), y: int32(y), w: float32(w), fg: fg})
 			}
-			w := rho*b - I
-			if w <= 0 {
-				continue
-			}
-			body++
-			fx := float64(x - x0)
-			m0 += w
-			m1x += w * fx
-			m1y += w * fy
-			m2xx += w * fx * fx
-			m2xy += w * fx * fy
-			m2yy += w * fy * fy
 		}
 	}
-	if m0 <= 0 || area == 0 {
-		return blob{}, false
+	whole := blobOf(s.pix)
+	if whole.m0 <= 0 || whole.area == 0 {
+		return nil
 	}
-	// Sums about the window origin to frame coordinates.
-	ox, oy := float64(x0), float64(y0)
-	return blob{
-		m0: m0, mx: m1x + ox*m0, my: m1y + oy*m0,
-		mxx:  m2xx + 2*ox*m1x + ox*ox*m0,
-		mxy:  m2xy + ox*m1y + oy*m1x + ox*oy*m0,
-		myy:  m2yy + 2*oy*m1y + oy*oy*m0,
-		area: area, body: body, box: image.Rect(bx0, by0, bx1, by1),
-	}, true
+	// Seeds (predicted positions of confirmed tracks) inside the blob.
+	bb := whole.box.Inset(-int(0.25 * p.beeLenPX))
+	var in []int
+	for i, sd := range s.seeds {
+		if image.Pt(int(sd.XPX), int(sd.YPX)).In(bb) {
+			in = append(in, i)
+		}
+	}
+	if len(in) < 2 || float64(whole.area) < p.splitAreaPX {
+		whole.seed = nearestSeed(whole, s.seeds, 0.6*p.beeLenPX)
+		return []blob{whole}
+	}
+	return s.split(in)
+}
+
+// pixel is one pixel of a blob at full size: weight w = max(0, rho b -
+// I) and whether it is foreground.
+type pixel struct {
+	x, y int32
+	w    float32
+	fg   bool
+}
+
+// blobOf sums the moments, area, body count and box of pixels.
+func blobOf(px []pixel) blob {
+	var b blob
+	bx0, by0, bx1, by1 := math.MaxInt32, math.MaxInt32, math.MinInt32, math.MinInt32
+	b.seed = -1
+	for _, q := range px {
+		x, y, w := float64(q.x), float64(q.y), float64(q.w)
+		if q.fg {
+			b.area++
+			bx0, by0 = min(bx0, int(q.x)), min(by0, int(q.y))
+			bx1, by1 = max(bx1, int(q.x)+1), max(by1, int(q.y)+1)
+		}
+		if w > 0 {
+			b.body++
+			b.m0 += w
+			b.mx += w * x
+			b.my += w * y
+			b.mxx += w * x * x
+			b.mxy += w * x * y
+			b.myy += w * y * y
+		}
+	}
+	if b.area > 0 {
+		b.box = image.Rect(bx0, by0, bx1, by1)
+	}
+	return b
+}
+
+// split divides the pixels of a blob that holds the predicted positions
+// of several confirmed tracks (bees touching or overlapping) among them:
+// weighted k-means (Lloyd 1982) started at the predictions, 4 rounds,
+// each pixel to the nearest centre. It returns one blob per non-empty
+// part, each tagged with its seed so that mergeFragments keeps them apart.
+func (s *segmenter) split(in []int) []blob {
+	if len(in) > 4 {
+		in = in[:4]
+	}
+	cx := make([]float64, len(in))
+	cy := make([]float64, len(in))
+	for i, j := range in {
+		cx[i], cy[i] = s.seeds[j].XPX, s.seeds[j].YPX
+	}
+	lab := s.lab[:0]
+	for range s.pix {
+		lab = append(lab, 0)
+	}
+	s.lab = lab
+	for round := 0; round < 4; round++ {
+		for i, q := range s.pix {
+			best, bd := 0, math.Inf(1)
+			for c := range cx {
+				if d := (float64(q.x)-cx[c])*(float64(q.x)-cx[c]) + (float64(q.y)-cy[c])*(float64(q.y)-cy[c]); d < bd {
+					best, bd = c, d
+				}
+			}
+			lab[i] = best
+		}
+		if round == 3 {
+			break
+		}
+		for c := range cx {
+			var m0, mx, my float64
+			for i, q := range s.pix {
+				if lab[i] == c && q.w > 0 {
+					m0 += float64(q.w)
+					mx += float64(q.w) * float64(q.x)
+					my += float64(q.w) * float64(q.y)
+				}
+			}
+			if m0 > 0 {
+				cx[c], cy[c] = mx/m0, my/m0
+			}
+		}
+	}
+	var out []blob
+	part := s.part[:0]
+	for c := range cx {
+		part = part[:0]
+		for i, q := range s.pix {
+			if lab[i] == c {
+				part = append(part, q)
+			}
+		}
+		b := blobOf(part)
+		if b.m0 > 0 && b.area > 0 {
+			b.seed = in[c]
+			out = append(out, b)
+		}
+	}
+	s.part = part
+	return out
+}
+
+// nearestSeed returns the index of the seed nearest to b's centroid
+// within r px, or -1.
+func nearestSeed(b blob, seeds []protectZone, r float64) int {
+	if b.m0 <= 0 {
+		return -1
+	}
+	x, y := b.mx/b.m0, b.my/b.m0
+	best, bd := -1, r*r
+	for i, sd := range seeds {
+		if d := (sd.XPX-x)*(sd.XPX-x) + (sd.YPX-y)*(sd.YPX-y); d <= bd {
+			best, bd = i, d
+		}
+	}
+	return best
 }
 
 // background writes the colour background model, enlarged to the frame

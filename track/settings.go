@@ -75,8 +75,9 @@ type Settings struct {
 	// MinAreaFrac and MaxAreaFrac bound a blob's area as fractions of the
 	// expected bee area (an ellipse BL long and 0.45 BL wide), range
 	// 0 < Min < Max <= 50. Defaults 0.35 (a bee half out of the picture
-	// or behind a leaf) and 4 (two bees touching, or one blurred by fast
-	// flight).
+	// or behind a leaf) and 8 (two or three bees touching, with shadows).
+	// A blob of more than 1.3 expected areas that holds the predicted
+	// positions of several tracked bees is split among them.
 	MinAreaFrac float64 `toml:"min_area_frac" json:"min_area_frac"`
 	MaxAreaFrac float64 `toml:"max_area_frac" json:"max_area_frac"`
 
@@ -172,7 +173,7 @@ func (s Settings) withDefaults() Settings {
 	def(&s.ActivityTauS, 8)
 	def(&s.MaxActivity, 0.03)
 	def(&s.MinAreaFrac, 0.35)
-	def(&s.MaxAreaFrac, 4)
+	def(&s.MaxAreaFrac, 8)
 	def(&s.MaxLengthBL, 3)
 	def(&s.MaxElongation, 4.5)
 	def(&s.MinWidthBL, 0.2)
@@ -259,6 +260,7 @@ func (s Settings) segParams(w, h int, fps float64) segParams {
 		minAreaWork:    math.Max(1, 0.5*s.MinAreaFrac*expArea),
 		minAreaPX:      s.MinAreaFrac * math.Pi / 4 * bl * 0.45 * bl,
 		minWidthPX:     s.MinWidthBL * bl,
+		splitAreaPX:    1.3 * math.Pi / 4 * bl * 0.45 * bl,
 		maxAreaWork:    s.MaxAreaFrac * expArea,
 		maxLenPX:       s.MaxLengthBL * bl,
 		maxElong:       s.MaxElongation,

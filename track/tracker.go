@@ -15,19 +15,21 @@ import (
 // confirmed tracks fed back to keep bees out of the background model.
 // Call Step for every frame in order, then Finish once, then Close.
 type Tracker struct {
-	s      Settings // with defaults
-	info   VideoInfo
-	p      segParams
-	seg    *segmenter
-	lk     *link.Linker
-	last   int
-	begun  bool
-	done   bool
-	dets   []Detection
-	zones  []protectZone
-	travel map[int]*travelled // by provisional track ID
-	stats  Stats
-	closed bool
+	s       Settings // with defaults
+	info    VideoInfo
+	p       segParams
+	seg     *segmenter
+	lk      *link.Linker
+	last    int
+	begun   bool
+	done    bool
+	dets    []Detection
+	zones   []protectZone
+	seeds   []protectZone
+	lastAsg []link.Assignment
+	travel  map[int]*travelled // by provisional track ID
+	stats   Stats
+	closed  bool
 }
 
 // travelled records where a confirmed track started, where it was last,
@@ -145,13 +147,19 @@ func (t *Tracker) Step(fi FrameInfo, frame gocv.Mat) error {
 	far2 := (t.s.ProtectAfterBL * bl) * (t.s.ProtectAfterBL * bl)
 	preds := t.lk.Predicted()
 	t.zones = t.zones[:0]
+	t.seeds = t.seeds[:0]
 	for _, p := range preds {
-		if tv := t.travel[p.TrackID]; p.Frame == fi.Index && tv != nil && tv.far {
+		if p.Frame != fi.Index {
+			continue
+		}
+		t.seeds = append(t.seeds, protectZone{p.XPX, p.YPX, 0})
+		if tv := t.travel[p.TrackID]; tv != nil && tv.far {
 			t.zones = append(t.zones, protectZone{p.XPX, p.YPX, r0})
 		}
 	}
-	t.dets = t.seg.detect(frame, fi.Index, fi.TimeS, t.zones)
+	t.dets = t.seg.detect(frame, fi.Index, fi.TimeS, t.zones, t.seeds)
 	asg := t.lk.Step(fi.Index, t.dets)
+	t.lastAsg = asg
 
 	t.zones = t.zones[:0]
 	for _, a := range asg {

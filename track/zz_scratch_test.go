@@ -1,6 +1,7 @@
 package track
 
 import (
+	"strconv"
 	"fmt"
 	"math"
 	"os"
@@ -92,6 +93,12 @@ func TestScratchMeadow(t *testing.T) {
 	t0 := time.Now()
 	s := sceneSettings(truth)
 	s.Stabilize = os.Getenv("STAB") != ""
+	if v, err := strconv.ParseFloat(os.Getenv("ACC"), 64); err == nil {
+		s.Link.AccelSigmaPXPerS2 = v * s.BodyLengthPX()
+	}
+	if v, err := strconv.ParseFloat(os.Getenv("MING"), 64); err == nil {
+		s.Link.MinGateRadiusPX = v * s.BodyLengthPX()
+	}
 	tracks, st, _, err := trackFile(t, path, s)
 	t.Logf("track %v err %v stats %+v", time.Since(t0), err, st)
 	diag(t, name, truth, tracks, s)

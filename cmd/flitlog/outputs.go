@@ -124,6 +124,12 @@ func processClip(ctx context.Context, j clipJob, s Settings, opts runOptions, pr
 // beside dir and then puts it in dir's place.
 func writeClipOutputs(ctx context.Context, dir string, a *clipAnalysis, s Settings, key resumeKey, r clipResult) error {
 	parent := filepath.Dir(dir)
+	// Temporary folders left by a run that was killed outright.
+	if stale, _ := filepath.Glob(filepath.Join(parent, "."+filepath.Base(dir)+".tmp-*")); len(stale) > 0 {
+		for _, d := range stale {
+			os.RemoveAll(d)
+		}
+	}
 	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(dir)+".tmp-")
 	if err != nil {
 		return err

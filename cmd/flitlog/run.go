@@ -15,6 +15,9 @@ import (
 	"strings"
 	"sync"
 	"syscall"
+
+	"flitlog/calibration"
+	"flitlog/visits"
 )
 
 const runUsage = `
@@ -144,6 +147,10 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "flitlog run: %v\n", bad)
 		return exitUsage
 	}
+	if err := checkSharedFiles(s); err != nil {
+		fmt.Fprintf(stderr, "flitlog run: %v\n", err)
+		return exitUsage
+	}
 	if *printConfig {
 		if err := s.WriteTOML(stdout); err != nil {
 			fmt.Fprintf(stderr, "flitlog run: %v\n", err)
@@ -164,6 +171,27 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 	return runBatch(ctx, pos, s, opts, stderr)
+}
+
+// checkSharedFiles loads the files that every clip of the batch uses, so
+// that a missing or malformed one is reported once, before any work.
+func checkSharedFiles(s Settings) error {
+	if s.Flowers.File != "" {
+		if _, err := visits.LoadFlowerMap(s.Flowers.File); err != nil {
+			return err
+		}
+	}
+	if s.Calibration.File != "" {
+		if _, err := calibration.Load(s.Calibration.File); err != nil {
+			return err
+		}
+	}
+	if s.Track.ROIMaskPath != "" {
+		if _, err := os.Stat(s.Track.ROIMaskPath); err != nil {
+			return fmt.Errorf("region-of-interest mask %s: %s", s.Track.ROIMaskPath, errText(err))
+		}
+	}
+	return nil
 }
 
 // clipJob is one clip of a batch.

@@ -49,10 +49,10 @@ func (b frameBox) nearEdge(p Point, marginPX float64) bool {
 //	flight:  g <= MaxGapS and d <= reach = MinGateRadiusPX + vmax g, where
 //	         vmax = min(MaxSpeedPXPerS, 2 max(va, vb) + StillSpeedPXPerS)
 //	         with va, vb the straight-line speeds over SpeedWindowS before
-//	         a's end and after b's start (va at least the filter's speed at
-//	         a's end) (the bee flies through the gap at most about
-//	         twice as fast as on either side of it, so two still fragments
-//	         far apart are not joined);
+//	         a's end and after b's start, va raised to the filter's speed
+//	         at a's end if that is larger: the bee flies through the gap at
+//	         most about twice as fast as on either side of it, so two
+//	         still fragments far apart are not joined;
 //	         and, if g > MaxCoastMovingS, either both points lie within
 //	         EdgeMarginPX of the frame's border (the bee left the
 //	         picture and came back) or d <= MaxGateRadiusPX (it hid

@@ -126,7 +126,9 @@ type Settings struct {
 
 	// MaxCoastMovingS is how long a moving track is kept without
 	// detections, s (> 0). Longer gaps of flying bees are left to gap
-	// closing. Default 0.5 s.
+	// closing, which also uses it as the longest overlap it cuts off and
+	// the longest gap it bridges in mid-picture without a distance limit.
+	// Default 0.5 s.
 	MaxCoastMovingS float64
 
 	// CoastVelHalfLifeS: while a track coasts, its velocity decays with
@@ -219,7 +221,7 @@ func (s Settings) withDefaults() Settings {
 		s.EdgeMarginPX = 2 * bl("EdgeMarginPX")
 	}
 	if s.StationaryRadiusPX == 0 {
-		s.StationaryRadiusPX = -1 // TEMP
+		s.StationaryRadiusPX = 1.5 * bl("StationaryRadiusPX")
 	}
 	if s.MinHitsToConfirm == 0 {
 		s.MinHitsToConfirm = 3
