@@ -118,7 +118,7 @@ func TestRunEndToEndSingleBee(t *testing.T) {
 			gt = append(gt, mot.Obs{Frame: p.Frame, ID: p.BeeID, XPX: p.XPX, YPX: p.YPX})
 		}
 	}
-	sc, err := mot.Evaluate(gt, hyp, 0.5*cfg.BeeLengthMM*truth.PXPerMM)
+	sc, err := mot.Evaluate(gt, hyp, 0.5*truth.Config.BeeLengthMM*truth.PXPerMM)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -433,4 +433,3 @@ func TestRunFlowerMapAndScaleErrors(t *testing.T) {
 		})
 	}
 }
-
