@@ -4,6 +4,10 @@ import (
 	"math"
 	"sort"
 	"strings"
+
+	"gonum.org/v1/gonum/mat"
+
+	"flitlog/track/link"
 )
 
 // DefaultToleranceS is the default largest gap, in seconds, between two
@@ -138,124 +142,25 @@ func MatchLandings(a, b []Landing, toleranceS float64) []Pair {
 		for y, j := range g.bs {
 			cb[j] = y
 		}
-		// Rows are the smaller side, as hungarian wants rows <= columns.
-		swap := len(g.as) > len(g.bs)
-		nr, nc := len(g.as), len(g.bs)
-		if swap {
-			nr, nc = nc, nr
+		// Non-candidate pairs are forbidden (+Inf); link.Assign finds the
+		// most pairs and, among those, the least total boundary error.
+		cost := mat.NewDense(len(g.as), len(g.bs), nil)
+		for x := range g.as {
+			for y := range g.bs {
+				cost.Set(x, y, math.Inf(1))
+			}
 		}
-		cost := make([][]float64, nr)
-		ok := make([][]bool, nr)
-		for x := range cost {
-			cost[x] = make([]float64, nc)
-			ok[x] = make([]bool, nc)
-		}
-		var total float64
 		for _, e := range g.es {
-			c := boundaryErrS(a[e.i], b[e.j])
-			total += c
-			x, y := ra[e.i], cb[e.j]
-			if swap {
-				x, y = y, x
-			}
-			cost[x][y] = c
-			ok[x][y] = true
+			cost.Set(ra[e.i], cb[e.j], boundaryErrS(a[e.i], b[e.j]))
 		}
-		big := 1 + 2*total
-		for x := range cost {
-			for y := range cost[x] {
-				if !ok[x][y] {
-					cost[x][y] = big
-				}
+		rowToCol, _ := link.Assign(cost)
+		for x, y := range rowToCol {
+			if y >= 0 {
+				pairs = append(pairs, Pair{A: g.as[x], B: g.bs[y]})
 			}
-		}
-		for x, y := range hungarian(cost) {
-			if !ok[x][y] {
-				continue
-			}
-			i, j := x, y
-			if swap {
-				i, j = y, x
-			}
-			pairs = append(pairs, Pair{A: g.as[i], B: g.bs[j]})
 		}
 	}
 	sort.Slice(pairs, func(x, y int) bool { return pairs[x].A < pairs[y].A })
 	return pairs
 }
 
-// hungarian solves the rectangular assignment problem: it returns, for
-// each row of an n x m cost matrix with n <= m, the column assigned to it
-// such that the columns differ and the total cost is least. It is the
-// O(n^2 m) shortest augmenting path form of the Hungarian method with row
-// and column potentials u, v, where cost[i][j] - u[i] - v[j] >= 0 holds
-// throughout and is zero on the assignment (Kuhn 1955; Munkres 1957).
-func hungarian(cost [][]float64) []int {
-	n := len(cost)
-	if n == 0 {
-		return nil
-	}
-	m := len(cost[0])
-	if n > m {
-		panic("agree: hungarian wants rows <= columns")
-	}
-	inf := math.Inf(1)
-	// 1-based arrays; column 0 is a virtual column holding the row being
-	// inserted.
-	u := make([]float64, n+1)
-	v := make([]float64, m+1)
-	p := make([]int, m+1) // p[j]: row assigned to column j (0 = none)
-	way := make([]int, m+1)
-	minv := make([]float64, m+1)
-	used := make([]bool, m+1)
-	for i := 1; i <= n; i++ {
-		p[0] = i
-		j0 := 0
-		for j := range minv {
-			minv[j] = inf
-			used[j] = false
-		}
-		for {
-			used[j0] = true
-			i0, delta, j1 := p[j0], inf, 0
-			for j := 1; j <= m; j++ {
-				if used[j] {
-					continue
-				}
-				// Reduced cost of row i0, column j.
-				cur := cost[i0-1][j-1] - u[i0] - v[j]
-				if cur < minv[j] {
-					minv[j], way[j] = cur, j0
-				}
-				if minv[j] < delta {
-					delta, j1 = minv[j], j
-				}
-			}
-			for j := 0; j <= m; j++ {
-				if used[j] {
-					u[p[j]] += delta
-					v[j] -= delta
-				} else {
-					minv[j] -= delta
-				}
-			}
-			j0 = j1
-			if p[j0] == 0 {
-				break
-			}
-		}
-		// Augment along the alternating path.
-		for j0 != 0 {
-			j1 := way[j0]
-			p[j0] = p[j1]
-			j0 = j1
-		}
-	}
-	ans := make([]int, n)
-	for j := 1; j <= m; j++ {
-		if p[j] != 0 {
-			ans[p[j]-1] = j - 1
-		}
-	}
-	return ans
-}

@@ -129,52 +129,6 @@ func TestMatchLandingsOptimal(t *testing.T) {
 	}
 }
 
-// TestHungarianBruteForce: the assignment is optimal against brute force
-// over all injections of rows into columns (seeded random costs).
-func TestHungarianBruteForce(t *testing.T) {
-	rng := rand.New(rand.NewPCG(8, 2))
-	for trial := 0; trial < 300; trial++ {
-		n := 1 + rng.IntN(5)
-		m := n + rng.IntN(3)
-		cost := make([][]float64, n)
-		for i := range cost {
-			cost[i] = make([]float64, m)
-			for j := range cost[i] {
-				cost[i][j] = math.Round(rng.Float64()*100) / 10 // ties happen
-			}
-		}
-		got := hungarian(cost)
-		var gotC float64
-		cols := map[int]bool{}
-		for i, j := range got {
-			if cols[j] {
-				t.Fatalf("trial %d: column %d used twice: %v", trial, j, got)
-			}
-			cols[j] = true
-			gotC += cost[i][j]
-		}
-		best := math.Inf(1)
-		used := make([]bool, m)
-		var rec func(i int, c float64)
-		rec = func(i int, c float64) {
-			if i == n {
-				best = math.Min(best, c)
-				return
-			}
-			for j := 0; j < m; j++ {
-				if !used[j] {
-					used[j] = true
-					rec(i+1, c+cost[i][j])
-					used[j] = false
-				}
-			}
-		}
-		rec(0, 0)
-		if math.Abs(gotC-best) > 1e-9 {
-			t.Fatalf("trial %d: cost %.3f, brute force %.3f (%v)", trial, gotC, best, cost)
-		}
-	}
-}
 
 func TestGap(t *testing.T) {
 	for _, tc := range []struct {
