@@ -121,7 +121,15 @@ func (s *Settings) WriteTOML(w io.Writer) error {
 	fmt.Fprintln(w, "# flitlog settings: defaults, then --config FILE, then flags.")
 	fmt.Fprintln(w, "# Units are in the names (_mm, _s, _px, _mm_per_s, _hz). Save this as a")
 	fmt.Fprintln(w, "# file, edit it and pass it back with 'flitlog run --config FILE'.")
-	return toml.NewEncoder(w).Encode(s)
+	var b bytes.Buffer
+	if err := toml.NewEncoder(&b).Encode(s); err != nil {
+		return err
+	}
+	text := strings.Replace(b.String(), "  [track.link]\n",
+		"  # Linking. 0 = the default, derived per clip from its frame rate and\n"+
+			"  # the bee's length in px (see package flitlog/track/link).\n  [track.link]\n", 1)
+	_, err := io.WriteString(w, text)
+	return err
 }
 
 // Hash returns a SHA-256 over everything that changes the results of a

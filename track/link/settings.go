@@ -14,15 +14,15 @@ import (
 // Abbreviations below: BL = BodyLengthPX, px = pixels of the full frame.
 type Settings struct {
 	// FPS is the frame rate of the clip, frames/s. Required, > 0.
-	FPS float64
+	FPS float64 `toml:"-" json:"-"`
 
 	// BodyLengthPX is the length of one bee in the image, px (> 0). It
 	// only scales the defaults of the px fields below.
-	BodyLengthPX float64
+	BodyLengthPX float64 `toml:"-" json:"-"`
 
 	// Model is the process noise model of the Kalman filter; zero is
 	// DiscreteWNA.
-	Model NoiseModel
+	Model NoiseModel `toml:"-" json:"-"`
 
 	// AccelSigmaPXPerS2 is the standard deviation of the acceleration in
 	// the discrete white-noise acceleration model, px/s^2 (> 0). Default
@@ -31,33 +31,33 @@ type Settings struct {
 	// turns the filter misses are repaired by gap closing. With Model ContinuousWNA the
 	// power spectral density is taken as AccelSigmaPXPerS2^2 / FPS, which
 	// gives the same velocity variance per frame.
-	AccelSigmaPXPerS2 float64
+	AccelSigmaPXPerS2 float64 `toml:"accel_sigma_px_per_s2" json:"accel_sigma_px_per_s2"`
 
 	// MeasSigmaPX is the standard deviation of a detection's centroid per
 	// coordinate, px (> 0). Default max(1, 0.08 BL).
-	MeasSigmaPX float64
+	MeasSigmaPX float64 `toml:"meas_sigma_px" json:"meas_sigma_px"`
 
 	// InitVelSigmaPXPerS is the standard deviation of each velocity
 	// component of a new track started with velocity 0, px/s (> 0).
 	// Default MaxSpeedPXPerS / 2.
-	InitVelSigmaPXPerS float64
+	InitVelSigmaPXPerS float64 `toml:"init_vel_sigma_px_per_s" json:"init_vel_sigma_px_per_s"`
 
 	// GateProbability is p of the chi-square gate on the squared
 	// Mahalanobis distance (2 degrees of freedom), in (0, 1). Default
 	// 0.99, i.e. d^2 <= 9.21.
-	GateProbability float64
+	GateProbability float64 `toml:"gate_probability" json:"gate_probability"`
 
 	// MinGateRadiusPX: a detection this close to a prediction is inside
 	// the gate even if the chi-square test rejects it (covers centroid
 	// jumps of a blob larger than the filter expects), px (>= 0). Default
 	// 0.5 BL.
-	MinGateRadiusPX float64
+	MinGateRadiusPX float64 `toml:"min_gate_radius_px" json:"min_gate_radius_px"`
 
 	// MaxGateRadiusPX: a detection farther than this from a prediction is
 	// outside the gate whatever the covariance (stops a long-coasting
 	// track from reaching across the frame), px (> MinGateRadiusPX).
 	// Default max(3 BL, 1.5 MaxSpeedPXPerS / FPS).
-	MaxGateRadiusPX float64
+	MaxGateRadiusPX float64 `toml:"max_gate_radius_px" json:"max_gate_radius_px"`
 
 	// MergeRadiusPX: when a confirmed track gets no detection but its
 	// prediction is within this distance of another confirmed track's
@@ -65,12 +65,12 @@ type Settings struct {
 	// to form one blob; both tracks then predict through it without using
 	// its centroid, px. Default 1 BL; a negative value turns merge
 	// handling off.
-	MergeRadiusPX float64
+	MergeRadiusPX float64 `toml:"merge_radius_px" json:"merge_radius_px"`
 
 	// MaxMergeS: two tracks merged for longer than this are taken to
 	// follow the same bee, and all but the one with the most detections
 	// end, s (> 0). Default 2 s.
-	MaxMergeS float64
+	MaxMergeS float64 `toml:"max_merge_s" json:"max_merge_s"`
 
 	// StationaryRadiusPX: Finish drops a track that starts after the
 	// clip's first second, ends before its last second and whose
@@ -78,27 +78,27 @@ type Settings struct {
 	// a bee does not appear and vanish in mid-picture without moving, but
 	// flickering foliage does. px; default 1.5 BL; a negative value turns
 	// the rule off.
-	StationaryRadiusPX float64
+	StationaryRadiusPX float64 `toml:"stationary_radius_px" json:"stationary_radius_px"`
 
 	// MinHitsToConfirm is the number of detections a new (tentative)
 	// track needs before it is confirmed and reported, >= 1. Default 3.
-	MinHitsToConfirm int
+	MinHitsToConfirm int `toml:"min_hits_to_confirm" json:"min_hits_to_confirm"`
 
 	// MaxTentativeMisses is the number of consecutive frames without a
 	// detection after which a tentative track is dropped. Default 1; zero
 	// means the default, a negative value means 0 (dropped at the first
 	// miss).
-	MaxTentativeMisses int
+	MaxTentativeMisses int `toml:"max_tentative_misses" json:"max_tentative_misses"`
 
 	// StillSpeedPXPerS: a track whose speed over the last SpeedWindowS
 	// before its latest detection is at most this is "still" (landed or
 	// walking) and may coast for MaxCoastStillS, px/s (> 0). Default
 	// 3 BL/s.
-	StillSpeedPXPerS float64
+	StillSpeedPXPerS float64 `toml:"still_speed_px_per_s" json:"still_speed_px_per_s"`
 
 	// SpeedWindowS is the time over which a track's recent speed is
 	// measured from its detections, s (> 0). Default 0.25 s.
-	SpeedWindowS float64
+	SpeedWindowS float64 `toml:"speed_window_s" json:"speed_window_s"`
 
 	// StillSigmaPX is the standard deviation of an unseen still bee's
 	// position about where it was last reliably detected, px (> 0). While
@@ -106,7 +106,7 @@ type Settings struct {
 	// uncertainty added, instead of growing with the flight model; with
 	// the 0.99 gate a still track re-acquires detections within about
 	// 3 StillSigmaPX. Default 0.5 BL.
-	StillSigmaPX float64
+	StillSigmaPX float64 `toml:"still_sigma_px" json:"still_sigma_px"`
 
 	// ReconfirmAfterMisses: after more than this many consecutive frames
 	// without a detection, a confirmed track is "lost": a detection
@@ -117,30 +117,30 @@ type Settings struct {
 	// stops a coasting track from living on single clutter detections.
 	// Frames; default 1; zero means the default, a negative value means
 	// never.
-	ReconfirmAfterMisses int
+	ReconfirmAfterMisses int `toml:"reconfirm_after_misses" json:"reconfirm_after_misses"`
 
 	// MaxCoastStillS is how long a still track is kept without detections
 	// before it ends, s (> 0). A landed bee that stops moving can vanish
 	// from the foreground for a long time. Default 10 s.
-	MaxCoastStillS float64
+	MaxCoastStillS float64 `toml:"max_coast_still_s" json:"max_coast_still_s"`
 
 	// MaxCoastMovingS is how long a moving track is kept without
 	// detections, s (> 0). Longer gaps of flying bees are left to gap
 	// closing, which also uses it as the longest overlap it cuts off and
 	// the longest gap it bridges in mid-picture without a distance limit.
 	// Default 0.5 s.
-	MaxCoastMovingS float64
+	MaxCoastMovingS float64 `toml:"max_coast_moving_s" json:"max_coast_moving_s"`
 
 	// CoastVelHalfLifeS: while a track coasts, its velocity decays with
 	// this half-life, so that an unseen target's prediction comes to rest,
 	// s (> 0). Default 0.1 s.
-	CoastVelHalfLifeS float64
+	CoastVelHalfLifeS float64 `toml:"coast_vel_half_life_s" json:"coast_vel_half_life_s"`
 
 	// MaxSpeedPXPerS is the highest plausible flight speed, px/s (> 0).
 	// Gap closing joins two fragments only if the straight distance
 	// between them can be flown at this speed in the gap. Default
 	// 80 BL/s (about 1 m/s for a 12 mm bee).
-	MaxSpeedPXPerS float64
+	MaxSpeedPXPerS float64 `toml:"max_speed_px_per_s" json:"max_speed_px_per_s"`
 
 	// MaxGapS is the longest gap that gap closing bridges between a track
 	// ending and another starting elsewhere (exit and re-entry at the
@@ -151,17 +151,17 @@ type Settings struct {
 	// MaxGateRadiusPX. A gap of up to MaxCoastStillS is bridged if both
 	// ends are within MinGateRadiusPX (a bee that sat unseen where it
 	// vanished).
-	MaxGapS float64
+	MaxGapS float64 `toml:"max_gap_s" json:"max_gap_s"`
 
 	// MinObservedPoints: a track fragment with fewer detections than this
 	// is dropped as noise before gap closing, >= 1. Default
 	// max(MinHitsToConfirm, ceil(0.2 FPS)).
-	MinObservedPoints int
+	MinObservedPoints int `toml:"min_observed_points" json:"min_observed_points"`
 
 	// EdgeMarginPX: gap closing takes a track end or start within this
 	// distance of the frame's border for an exit from or an entry into
 	// the picture, px (> 0). Default 2 BL.
-	EdgeMarginPX float64
+	EdgeMarginPX float64 `toml:"edge_margin_px" json:"edge_margin_px"`
 
 	// BoundsPX is the frame rectangle. When set (not empty), a confirmed
 	// track that has no detection in a frame and whose prediction lies
@@ -169,7 +169,7 @@ type Settings struct {
 	// closing uses it to tell exits at the border from gaps in mid-picture.
 	// Default: the zero rectangle: not known; gap closing then uses the
 	// bounding box of all detections instead.
-	BoundsPX image.Rectangle
+	BoundsPX image.Rectangle `toml:"-" json:"-"`
 }
 
 // DefaultSettings returns the settings for a clip at fps frames/s in which
