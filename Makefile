@@ -32,8 +32,12 @@ test: samples
 fuzz:
 	@bash .ci/fuzz.sh $(FUZZT)
 
-bench: samples
-	$(GO) test -run '^$$' -bench . -benchtime 1x -timeout 60m ./cmd/flitlog/
+# bench: clips are rendered once into .cache/bench (the first run takes ~10 min more).
+#   FLITLOG_BENCH_LONG=1 make bench    adds the 10-minute clip (memory vs clip length; first render ~12 min)
+#   FLITLOG_BENCH_ROUNDS=N             alternating decode/pipeline rounds per clip (default 3)
+#   make bench BENCHFLAGS='-count 5'   extra go test flags, e.g. for benchstat or -cpuprofile cpu.prof
+bench: deps
+	$(GO) test -run '^$$' -bench . -benchtime 1x -timeout 120m $(BENCHFLAGS) ./cmd/flitlog/
 
 clean:
 	rm -rf bin flitlog-demo .cache

@@ -3,6 +3,7 @@ package track
 import (
 	"errors"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 	"testing"
@@ -110,4 +111,152 @@ var testScenes = map[string]meadow.Config{
 		c.Name, c.DurationS = "t_windy", 25
 		return c
 	}(),
+}
+
+// score evaluates tracks against a scene's truth with CLEAR MOT and IDF1
+// (package mot; Bernardin & Stiefelhagen 2008, Ristani et al. 2016). A
+// track point corresponds to a bee within half a body length: on the
+// bee's body (common practice for point targets: a gate of the order of
+// the object's size). observedOnly scores only the points the tracker
+// detected, leaving out those filled in by coasting and gap closing.
+func score(t *testing.T, truth *meadow.Truth, tracks []Track, observedOnly bool) mot.Scores {
+	t.Helper()
+	maxD := 0.5 * truth.Config.BeeLengthMM * truth.PXPerMM
+	sc, err := mot.Evaluate(truthObs(truth), mot.FromTracks(tracks, observedOnly), maxD)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return sc
+}
+
+func logScores(t *testing.T, what string, sc mot.Scores) {
+	t.Helper()
+	t.Logf("%s: MOTA %.4f  MOTP %.2f px  RMSE %.2f px  IDF1 %.3f  ID switches %d  misses %d  false positives %d  tracks %d  false tracks %v",
+		what, sc.MOTA, sc.MOTP, sc.RMSEPX, sc.IDF1, sc.IDSwitches, sc.Misses, sc.FalsePositives, sc.HypTracks, sc.FalseTracks)
+}
+
+// TestAccuracySingleBee tracks one bee through a 48 s scene with a
+// landing of at least 30 s, an inspection, an exit and re-entry, and a
+// leaf it flies behind. Targets of issue 3: MOTA >= 0.98, position RMSE
+// <= 1.5 px, no identity switch, the track kept through the long landing.
+//
+// MOTA and RMSE are taken on the observed points: while the bee is out of
+// the picture, gap closing (package link) fills the gap with a straight
+// line through the frame, which is not a position anyone saw; those
+// points are scored separately and logged.
+func TestAccuracySingleBee(t *testing.T) {
+	t.Parallel()
+	path, truth := renderScene(t, "t_single", testScenes["t_single"])
+	tracks, st, _, err := trackFile(t, path, sceneSettings(truth))
+	if err != nil {
+		t.Fatal(err)
+	}
+	obs := score(t, truth, tracks, true)
+	all := score(t, truth, tracks, false)
+	logScores(t, "observed points", obs)
+	logScores(t, "all points", all)
+	t.Logf("tracker: %+v", st)
+	if obs.MOTA < 0.98 {
+		t.Errorf("MOTA %.4f < 0.98", obs.MOTA)
+	}
+	if obs.RMSEPX > 1.5 {
+		t.Errorf("position RMSE %.2f px > 1.5 px", obs.RMSEPX)
+	}
+	if obs.IDSwitches != 0 || all.IDSwitches != 0 || len(tracks) != 1 {
+		t.Errorf("%d tracks, %d / %d identity switches (observed / all points); want 1 track, 0 switches", len(tracks), obs.IDSwitches, all.IDSwitches)
+	}
+	// The long landing: every frame of it matched, all to one track.
+	var long *visitsLanding
+	for _, l := range truth.Landings {
+		if l.DurationS >= 30 && (long == nil || l.DurationS > long.durS) {
+			l := l
+			long = &visitsLanding{l.StartFrame, l.EndFrame, l.DurationS}
+		}
+	}
+	if long == nil {
+		t.Fatal("scene has no landing of 30 s or more")
+	}
+	pairs, err := mot.MatchPairs(truthObs(truth), mot.FromTracks(tracks, true), 0.5*truth.Config.BeeLengthMM*truth.PXPerMM)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ids := map[int]int{}
+	for _, p := range pairs {
+		if p.Frame >= long.start && p.Frame <= long.end {
+			ids[p.HypID]++
+		}
+	}
+	n := long.end - long.start + 1
+	best := 0
+	for _, c := range ids {
+		best = max(best, c)
+	}
+	t.Logf("landing of %.1f s (frames %d-%d): detected and matched in %d of %d frames, tracks %v", long.durS, long.start, long.end, best, n, ids)
+	if len(ids) != 1 || float64(best) < 0.99*float64(n) {
+		t.Errorf("landing of %.1f s: matched frames per track %v of %d; want one track in >= 99 %%", long.durS, ids, n)
+	}
+}
+
+type visitsLanding struct {
+	start, end int
+	durS       float64
+}
+
+// TestAccuracyThreeBees tracks three bees that pass close to each other
+// (30 s, 1280x720). Targets of issue 3: IDF1 >= 0.90 and at most 2
+// identity switches per minute.
+func TestAccuracyThreeBees(t *testing.T) {
+	t.Parallel()
+	path, truth := renderScene(t, "t_three", testScenes["t_three"])
+	if len(truth.Crossings) < 2 {
+		t.Fatalf("scene has %d close passes, want >= 2", len(truth.Crossings))
+	}
+	tracks, st, _, err := trackFile(t, path, sceneSettings(truth))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, observed := range []bool{false, true} {
+		sc := score(t, truth, tracks, observed)
+		what := "all points"
+		if observed {
+			what = "observed points"
+		}
+		logScores(t, what, sc)
+		perMin := mot.PerMinute(sc.IDSwitches, truth.Frames, truth.FPS)
+		if sc.IDF1 < 0.90 || perMin > 2 {
+			t.Errorf("%s: IDF1 %.3f (want >= 0.90), %.1f identity switches per minute (want <= 2)", what, sc.IDF1, perMin)
+		}
+	}
+	t.Logf("close passes: %+v; tracker: %+v", truth.Crossings, st)
+}
+
+// TestAccuracyWindy: strong wind sways grass (14 px) and flowers (6 px)
+// and the camera shakes (3 px); with Stabilize, at most 1 false track per
+// minute (issue 3). A false track is one of whose points fewer than half
+// lie on a bee (mot.Scores.FalseTracks).
+func TestAccuracyWindy(t *testing.T) {
+	t.Parallel()
+	path, truth := renderScene(t, "t_windy", testScenes["t_windy"])
+	s := sceneSettings(truth)
+	s.Stabilize = true
+	tracks, st, _, err := trackFile(t, path, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sc := score(t, truth, tracks, false)
+	logScores(t, "all points", sc)
+	logScores(t, "observed points", score(t, truth, tracks, true))
+	perMin := mot.PerMinute(len(sc.FalseTracks), truth.Frames, truth.FPS)
+	t.Logf("false tracks: %d in %.0f s = %.1f per minute; tracker: %+v", len(sc.FalseTracks), float64(truth.Frames)/truth.FPS, perMin, st)
+	if perMin > 1 {
+		t.Errorf("%.1f false tracks per minute, want <= 1", perMin)
+	}
+	// The scene shakes by up to about 3 px: the stabiliser must have seen it.
+	if st.MeanShiftPX < 0.5 || st.MeanShiftPX > 10 || math.IsNaN(st.MeanShiftPX) {
+		t.Errorf("mean estimated shake %.2f px, want a few px", st.MeanShiftPX)
+	}
+	// And the bee is followed for most of the clip.
+	if sc.MOTA < 0.5 {
+		t.Errorf("MOTA %.3f: the bee is lost", sc.MOTA)
+	}
 }

@@ -5,6 +5,7 @@ import (
 	"image"
 	"image/color"
 	"math"
+	"sort"
 	"unsafe"
 
 	"gocv.io/x/gocv"
@@ -81,6 +82,7 @@ type segmenter struct {
 	tmp            gocv.Mat // scratch (8U)
 	lmask, protect gocv.Mat // masks (8U)
 	notDark        gocv.Mat // where the gain is measured (8U)
+	near           gocv.Mat // near this frame's detections, start-up only (8U)
 	act            gocv.Mat // running frequency of dark foreground, 0..255 (32F)
 	unstable       gocv.Mat // act above MaxActivity and not protected (8U)
 	actTmp         gocv.Mat // scratch (32F)
@@ -97,10 +99,11 @@ type segmenter struct {
 	warpM          gocv.Mat // 2x3 translation (64F)
 	small          gocv.Mat // colour working image (8UC3)
 	muBGR          gocv.Mat // colour background (32FC3)
-	colourStarted  bool
 
 	seeds []protectZone // predicted positions of confirmed tracks, this frame
 	pix   []pixel       // scratch of refine
+	grid  []bool        // scratch of refine
+	dark  []float32     // scratch of weigh
 	part  []pixel       // scratch of split
 	lab   []int         // scratch of split
 }
@@ -120,6 +123,7 @@ func newSegmenter(p segParams, frameW, frameH int, roi gocv.Mat) *segmenter {
 	s.zero = gocv.NewMatWithSizeFromScalar(gocv.NewScalar(0, 0, 0, 0), p.workH, p.workW, gocv.MatTypeCV32F)
 	s.act = gocv.NewMatWithSizeFromScalar(gocv.NewScalar(0, 0, 0, 0), p.workH, p.workW, gocv.MatTypeCV32F)
 	s.protect = gocv.NewMatWithSize(p.workH, p.workW, gocv.MatTypeCV8U)
+	s.near = gocv.NewMatWithSize(p.workH, p.workW, gocv.MatTypeCV8U)
 	s.notDark = gocv.NewMatWithSizeFromScalar(gocv.NewScalar(255, 0, 0, 0), p.workH, p.workW, gocv.MatTypeCV8U)
 	s.kernel = gocv.GetStructuringElement(gocv.MorphRect, image.Pt(3, 3))
 	s.warpM = gocv.NewMatWithSize(2, 3, gocv.MatTypeCV64F)
@@ -140,7 +144,7 @@ func newSegmenter(p segParams, frameW, frameH int, roi gocv.Mat) *segmenter {
 }
 
 func (s *segmenter) close() {
-	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.mu, &s.vr, &s.d, &s.d2, &s.thr2, &s.zero, &s.anyFg, &s.darkFg, &s.det, &s.tmp, &s.lmask, &s.protect, &s.notDark, &s.roi, &s.labels, &s.stats, &s.cents, &s.kernel, &s.hann, &s.warpM, &s.small, &s.muBGR, &s.ref, &s.pcTmp, &s.noWindow, &s.act, &s.unstable, &s.actTmp} {
+	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.mu, &s.vr, &s.d, &s.d2, &s.thr2, &s.zero, &s.anyFg, &s.darkFg, &s.det, &s.tmp, &s.lmask, &s.protect, &s.notDark, &s.near, &s.roi, &s.labels, &s.stats, &s.cents, &s.kernel, &s.hann, &s.warpM, &s.small, &s.muBGR, &s.ref, &s.pcTmp, &s.noWindow, &s.act, &s.unstable, &s.actTmp} {
 		m.Close()
 	}
 }
@@ -371,7 +375,7 @@ func (s *segmenter) drawZones(zones []protectZone) {
 // running Gaussian. zones are discs (frame px) where confirmed bees were
 // detected in this frame; together with the zones given to detect they
 // are not learned at all.
-func (s *segmenter) learn(zones []protectZone) {
+func (s *segmenter) learn(zones []protectZone, dets []Detection) {
 	if s.skipLearn {
 		return
 	}
@@ -379,26 +383,48 @@ func (s *segmenter) learn(zones []protectZone) {
 	s.drawZones(zones)
 	aBG := alpha(s.dt, p.bgTauS)
 	aFG := alpha(s.dt, p.fgTauS)
+	aVar := aBG
+	c := 1 / float64(s.n+1)
 	if float64(s.n) < p.warmS*p.fps {
 		// Start-up: cumulative average of the frames so far, so that the
-		// first frame (possibly with a bee in it) is soon outweighed.
-		c := 1 / float64(s.n+1)
+		// first frame (possibly with a bee in it) is soon outweighed. Only
+		// for background pixels: what is darker than the frames so far is
+		// a bee arriving, not the ghost of one that sat in the first frame
+		// (that ghost is brighter than the model).
 		aBG = math.Max(aBG, c)
-		aFG = math.Max(aFG, c)
 	}
 	// Variance first, from the deviation against the mean before the
 	// update: var <- (1-a) var + a min(d^2, clamp), everywhere but under
 	// bees. Foreground pixels count too, so that pixels that keep
 	// changing (swaying grass) grow a large variance and stop being
-	// foreground; the clamp bounds what one passing bee adds.
-	// Variance and foreground frequency start as cumulative averages too,
-	// until their own rates take over: a fresh model learns where the
-	// scene sways within the first few sway periods.
-	c := 1 / float64(s.n+1)
+	// foreground; the clamp bounds what one passing bee adds. Background
+	// pixels start as a cumulative average until the variance's own rate
+	// takes over, so a fresh model learns where the scene sways within
+	// the first few sway periods; pixels near a detection are learned at
+	// the normal rate, so that a bee hovering in the first seconds does
+	// not teach its own pixels a huge variance.
 	gocv.BitwiseNot(s.protect, &s.lmask)
-	gocv.AccumulatedWeightedWithMask(s.darkFg, &s.act, math.Max(c, alpha(s.dt, p.actTauS)), s.lmask)
+	gocv.AccumulatedWeightedWithMask(s.darkFg, &s.act, alpha(s.dt, p.actTauS), s.lmask)
 	gocv.Threshold(s.d2, &s.d2, float32(p.varClamp), 0, gocv.ThresholdTrunc)
-	gocv.AccumulatedWeightedWithMask(s.d2, &s.vr, math.Max(c, aBG), s.lmask)
+	if c <= aVar || len(dets) == 0 {
+		gocv.AccumulatedWeightedWithMask(s.d2, &s.vr, math.Max(c, aVar), s.lmask)
+	} else {
+		// Start-up: near this frame's detections (bee-like blobs, tracked
+		// or not) at the normal rate, elsewhere cumulative.
+		s.near.SetTo(gocv.NewScalar(0, 0, 0, 0))
+		k := float64(p.factor)
+		r := int(math.Ceil(0.6 * p.beeLenPX / k))
+		for _, d := range dets {
+			cx := (d.XPX-(k-1)/2)/k - s.shiftX
+			cy := (d.YPX-(k-1)/2)/k - s.shiftY
+			gocv.Circle(&s.near, image.Pt(int(math.Round(cx)), int(math.Round(cy))), r, color.RGBA{255, 255, 255, 0}, -1)
+		}
+		gocv.BitwiseAnd(s.near, s.lmask, &s.tmp)
+		gocv.AccumulatedWeightedWithMask(s.d2, &s.vr, aVar, s.tmp)
+		gocv.BitwiseOr(s.near, s.protect, &s.tmp)
+		gocv.BitwiseNot(s.tmp, &s.tmp)
+		gocv.AccumulatedWeightedWithMask(s.d2, &s.vr, c, s.tmp)
+	}
 	s.vr.SubtractFloat(float32(p.varFloor))
 	gocv.Threshold(s.vr, &s.vr, 0, 0, gocv.ThresholdToZero)
 	s.vr.AddFloat(float32(p.varFloor))
@@ -564,15 +590,15 @@ type refineCtx struct {
 // The position and shape come from the bee's body only. A shadow dims the
 // ground by a fraction, I >= rho b, where a bee's body is dark whatever it
 // covers (the lower bound of the brightness-ratio test for shadow pixels of
-// Cucchiara et al. 2003, rho = ShadowRatio). So every pixel enters the
-// moments with weight w = max(0, rho b - I), how much darker it is than any
-// shadow could make it (pixels collected in s.pix):
+// Cucchiara et al. 2003, rho = ShadowRatio). Every pixel enters the
+// moments with the body-coverage weight w of weigh (0 for shadow, 1
+// inside the body):
 //
 //	xc = sum w x / sum w,  yc = sum w y / sum w,
 //	C  = sum w (p - pc)(p - pc)' / sum w,
 //
-// an intensity-weighted centroid that a shadow or soft blob edge does not
-// pull aside. The fitted ellipse has full axes 4 sqrt(lambda_1,2) of C
+// an intensity-weighted centroid that neither a shadow nor the texture of
+// the ground pulls aside. The fitted ellipse has full axes 4 sqrt(lambda_1,2) of C
 // (exact for a uniform ellipse) and orientation 0.5 atan2(2 C_xy, C_xx -
 // C_yy). A blob with fewer than minBodyPX pixels with w > 0 is a shadow or
 // a dimmed patch, not a bee, and is dropped (by blob.detection).
@@ -591,16 +617,38 @@ func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) []blob {
 	x1 := min(s.frameW, int(math.Ceil(float64(box.Max.X*k)+sx))+k)
 	y1 := min(s.frameH, int(math.Ceil(float64(box.Max.Y*k)+sy))+k)
 	W, H := p.workW, p.workH
-	member := func(cx, cy int) bool {
-		for yy := max(0, cy-1); yy <= min(H-1, cy+1); yy++ {
-			row := c.labels[yy*W:]
-			for xx := max(0, cx-1); xx <= min(W-1, cx+1); xx++ {
-				if row[xx] == id {
-					return true
+	// Membership per working cell of the window, dilated by one cell:
+	// computed once per cell rather than once per full-size pixel.
+	gx0 := max(0, int(math.Floor((float64(x0)-sx)/kf))-1)
+	gy0 := max(0, int(math.Floor((float64(y0)-sy)/kf))-1)
+	gx1 := min(W-1, int(math.Floor((float64(x1-1)-sx)/kf))+1)
+	gy1 := min(H-1, int(math.Floor((float64(y1-1)-sy)/kf))+1)
+	gw, gh := gx1-gx0+1, gy1-gy0+1
+	if gw <= 0 || gh <= 0 {
+		return nil
+	}
+	grid := s.grid[:0]
+	for i := 0; i < gw*gh; i++ {
+		grid = append(grid, false)
+	}
+	s.grid = grid
+	for yy := max(0, gy0-1); yy <= min(H-1, gy1+1); yy++ {
+		for xx := max(0, gx0-1); xx <= min(W-1, gx1+1); xx++ {
+			if c.labels[yy*W+xx] != id {
+				continue
+			}
+			for dy := -1; dy <= 1; dy++ {
+				for dx := -1; dx <= 1; dx++ {
+					if gx, gy := xx+dx-gx0, yy+dy-gy0; gx >= 0 && gy >= 0 && gx < gw && gy < gh {
+						grid[gy*gw+gx] = true
+					}
 				}
 			}
 		}
-		return false
+	}
+	member := func(cx, cy int) bool {
+		gx, gy := cx-gx0, cy-gy0
+		return gx >= 0 && gy >= 0 && gx < gw && gy < gh && grid[gy*gw+gx]
 	}
 	bilin := func(img []float32, u, v float64) float64 {
 		u = math.Min(math.Max(u, 0), float64(W-1))
@@ -627,12 +675,12 @@ func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) []blob {
 			b := bilin(c.mu, u, v)
 			I := g * float64(c.grey[y*s.frameW+x])
 			fg := b-I > math.Max(math.Sqrt(p.thresh2*bilin(c.vr, u, v)), p.minContrast)
-			w := math.Max(0, rho*b-I)
-			if fg || w > 0 {
-				s.pix = append(s.pix, pixel{x: int32(x), y: int32(y), w: float32(w), fg: fg})
+			if fg || rho*b > I {
+				s.pix = append(s.pix, pixel{x: int32(x), y: int32(y), b: float32(b), i: float32(I), fg: fg})
 			}
 		}
 	}
+	s.weigh(rho)
 	whole := blobOf(s.pix)
 	if whole.m0 <= 0 || whole.area == 0 {
 		return nil
@@ -652,12 +700,51 @@ func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) []blob {
 	return s.split(in)
 }
 
-// pixel is one pixel of a blob at full size: weight w = max(0, rho b -
-// I) and whether it is foreground.
+// pixel is one pixel of a blob at full size: background b and brightness
+// I (grey levels), weight w (see weigh) and whether it is foreground.
 type pixel struct {
 	x, y int32
+	b, i float32
 	w    float32
 	fg   bool
+}
+
+// weigh sets the weights of the blob's pixels: how much of each pixel is
+// covered by dark bee body, from its brightness between the darkest body
+// level and the darkest a shadow could make the ground,
+//
+//	w = clamp((rho b - I) / (rho b - I_body), 0, 1),
+//
+// where I_body is the 10th percentile of I over the pixels darker than
+// rho b. Inside the body w = 1 whatever the ground; a shadow (I >= rho b)
+// gets 0; the soft edge gets a share that grows with the pixel's
+// coverage, the same on every side. So the weighted centroid is that of
+// the body's outline, not pulled toward the side with the brighter
+// ground, as plain darkness weights (b - I) would be.
+func (s *segmenter) weigh(rho float64) {
+	dark := s.dark[:0]
+	for _, q := range s.pix {
+		if rho*float64(q.b) > float64(q.i) {
+			dark = append(dark, q.i)
+		}
+	}
+	s.dark = dark
+	if len(dark) == 0 {
+		for i := range s.pix {
+			s.pix[i].w = 0
+		}
+		return
+	}
+	sort.Slice(dark, func(i, j int) bool { return dark[i] < dark[j] })
+	body := float64(dark[len(dark)/10])
+	for i, q := range s.pix {
+		den := rho*float64(q.b) - body
+		w := 0.0
+		if den > 0 {
+			w = math.Min(1, math.Max(0, (rho*float64(q.b)-float64(q.i))/den))
+		}
+		s.pix[i].w = float32(w)
+	}
 }
 
 // blobOf sums the moments, area, body count and box of pixels.
@@ -800,10 +887,4 @@ func float32s(m gocv.Mat) []float32 {
 		panic("track: " + err.Error())
 	}
 	return f
-}
-
-func (s *segmenter) grey32() gocv.Mat {
-	m := gocv.NewMat()
-	s.grey.ConvertTo(&m, gocv.MatTypeCV32F)
-	return m
 }

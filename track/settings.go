@@ -117,9 +117,10 @@ type Settings struct {
 
 	// ProtectAfterBL: a confirmed track is protected only once it has
 	// been seen this far from where it started, body lengths, range
-	// 0..100 (0 = at once). A bee arrives flying; a flicker at the edge of
-	// a swaying flower stays in place, and protecting it would keep it
-	// out of the background for good. Default 2.
+	// 0..100 (0 = at once), or if it started at the frame border or took
+	// over a protected track's bee. A bee arrives flying; a flicker at the
+	// edge of a swaying flower stays in place, and protecting it would
+	// keep it out of the background for good. Default 2.
 	ProtectAfterBL float64 `toml:"protect_after_bl" json:"protect_after_bl"`
 
 	// MinTravelBL: Finish drops a track whose detections never get this
@@ -272,6 +273,6 @@ func (s Settings) segParams(w, h int, fps float64) segParams {
 		resetS:         s.ResetAfterS,
 		stabilize:      s.Stabilize,
 		maxShiftWorkPX: 0.1 * float64(min(w, h)/k),
-		colourEvery:    max(1, int(math.Round(fps/4))),
+		colourEvery:    max(1, int(math.Round(fps))),
 	}
 }

@@ -15,21 +15,23 @@ import (
 // confirmed tracks fed back to keep bees out of the background model.
 // Call Step for every frame in order, then Finish once, then Close.
 type Tracker struct {
-	s       Settings // with defaults
-	info    VideoInfo
-	p       segParams
-	seg     *segmenter
-	lk      *link.Linker
-	last    int
-	begun   bool
-	done    bool
-	dets    []Detection
-	zones   []protectZone
-	seeds   []protectZone
-	lastAsg []link.Assignment
-	travel  map[int]*travelled // by provisional track ID
-	stats   Stats
-	closed  bool
+	s      Settings // with defaults
+	info   VideoInfo
+	p      segParams
+	seg    *segmenter
+	lk     *link.Linker
+	last   int
+	begun  bool
+	done   bool
+	dets   []Detection
+	zones  []protectZone
+	seeds  []protectZone
+	travel map[int]*travelled // by provisional track ID
+	stats  Stats
+	closed bool
+
+	shiftSum float64 // sum of the estimated shake magnitudes, px
+	shiftN   int
 }
 
 // travelled records where a confirmed track started, where it was last,
@@ -41,6 +43,11 @@ type travelled struct {
 	frame  int // frame of x, y
 }
 
+// DefaultLinkAccelBLPerS2 is the acceleration standard deviation of the
+// linker's Kalman filter used when Settings.Link leaves it zero, body
+// lengths/s^2.
+const DefaultLinkAccelBLPerS2 = 200
+
 // Stats count what the Tracker saw, for the run summary.
 type Stats struct {
 	Frames           int     // frames stepped
@@ -51,8 +58,6 @@ type Stats struct {
 	WorkFactor       int     // the frame is reduced by this factor for detection
 	BodyLengthPX     float64 // expected bee length, px
 	MeanShiftPX      float64 // mean magnitude of the estimated camera shake, px (0 without Stabilize)
-	shiftSum         float64
-	shiftN           int
 }
 
 // NewTracker prepares a Tracker for a clip described by info. It returns
@@ -80,6 +85,13 @@ func NewTracker(s Settings, info VideoInfo) (t *Tracker, err error) {
 	ls := s.Link
 	ls.FPS = info.FPS
 	ls.BodyLengthPX = p.beeLenPX
+	if ls.AccelSigmaPXPerS2 == 0 {
+		// Bees brake from cruising to hovering in a few frames; with
+		// link's default (100 BL/s^2) a braking bee falls out of its gate
+		// beside a landed one and the two swap identities (measured on
+		// the three-bee scene of the accuracy tests).
+		ls.AccelSigmaPXPerS2 = DefaultLinkAccelBLPerS2 * p.beeLenPX
+	}
 	ls.BoundsPX = image.Rect(0, 0, info.WidthPX, info.HeightPX)
 	var lk *link.Linker
 	func() {
@@ -159,14 +171,13 @@ func (t *Tracker) Step(fi FrameInfo, frame gocv.Mat) error {
 	}
 	t.dets = t.seg.detect(frame, fi.Index, fi.TimeS, t.zones, t.seeds)
 	asg := t.lk.Step(fi.Index, t.dets)
-	t.lastAsg = asg
 
 	t.zones = t.zones[:0]
 	for _, a := range asg {
 		d := t.dets[a.DetIndex]
 		tv := t.travel[a.TrackID]
 		if tv == nil {
-			tv = &travelled{x0: d.XPX, y0: d.YPX, far: t.inherits(d, fi.Index)}
+			tv = &travelled{x0: d.XPX, y0: d.YPX, far: t.inherits(d, fi.Index) || t.atEdge(d)}
 			t.travel[a.TrackID] = tv
 		}
 		if !tv.far && t.inherits(d, fi.Index) {
@@ -187,7 +198,7 @@ func (t *Tracker) Step(fi FrameInfo, frame gocv.Mat) error {
 			tv.x, tv.y, tv.frame = p.XPX, p.YPX, fi.Index
 		}
 	}
-	t.seg.learn(t.zones)
+	t.seg.learn(t.zones, t.dets)
 	if fi.Index%256 == 0 {
 		// Forget tracks that ended long ago.
 		for id, tv := range t.travel {
@@ -200,16 +211,17 @@ func (t *Tracker) Step(fi FrameInfo, frame gocv.Mat) error {
 	t.stats.Frames++
 	t.stats.Detections += len(t.dets)
 	if t.p.stabilize {
-		t.stats.shiftSum += math.Hypot(t.seg.shiftX, t.seg.shiftY) * float64(t.p.factor)
-		t.stats.shiftN++
+		t.shiftSum += math.Hypot(t.seg.shiftX, t.seg.shiftY) * float64(t.p.factor)
+		t.shiftN++
 	}
 	return nil
 }
 
-// inherits reports whether a track newly confirmed at detection d takes
-// over from a protected track seen within the last second and within 2
-// body lengths (plus a second's flight at 1 body length per frame): the
-// linker lost a bee as it braked to land and started a new track on it.
+// inherits reports whether detection d continues the path of a protected
+// track seen within the last second: within 2 body lengths of where it
+// was last, plus 1 body length per frame since. Then the track that got d
+// is protected too: the linker lost the bee as it braked to land and
+// started a new track on it, or gave it to a stale still track.
 func (t *Tracker) inherits(d Detection, frame int) bool {
 	bl := t.p.beeLenPX
 	maxAge := int(math.Ceil(t.info.FPS))
@@ -224,6 +236,13 @@ func (t *Tracker) inherits(d Detection, frame int) bool {
 		}
 	}
 	return false
+}
+
+// atEdge reports whether detection d touches the frame border within a
+// body length: a track that starts there is a bee flying into the picture.
+func (t *Tracker) atEdge(d Detection) bool {
+	m := int(math.Ceil(t.p.beeLenPX))
+	return d.Box.Min.X <= m || d.Box.Min.Y <= m || d.Box.Max.X >= t.info.WidthPX-m || d.Box.Max.Y >= t.info.HeightPX-m
 }
 
 // Detections returns the detections of the latest Step (valid until the
@@ -276,8 +295,8 @@ func (t *Tracker) Stats() Stats {
 	st := t.stats
 	st.DisturbedFrames = t.seg.disturbed
 	st.BackgroundResets = t.seg.resets
-	if st.shiftN > 0 {
-		st.MeanShiftPX = st.shiftSum / float64(st.shiftN)
+	if t.shiftN > 0 {
+		st.MeanShiftPX = t.shiftSum / float64(t.shiftN)
 	}
 	return st
 }
