@@ -14,28 +14,14 @@ import (
 	"flitlog/track/mot"
 )
 
-// renderScene writes the meadow scene cfg as an H.264 .mp4 into a
-// temporary folder and returns its path and ground truth. With the
-// environment variable FLITLOG_TRACK_CLIPS set to a folder, clips are
-// kept there between runs (for tuning only; CI renders afresh).
+// renderScene returns the meadow scene cfg as an H.264 .mp4 and its ground
+// truth, rendered once into the module's clip cache (.cache/clips, which a
+// fresh checkout does not have; see meadow.CachedClip) and shared with the
+// other packages' tests that use the same scene.
 func renderScene(t testing.TB, name string, cfg meadow.Config) (string, *meadow.Truth) {
 	t.Helper()
-	dir := os.Getenv("FLITLOG_TRACK_CLIPS")
-	if dir == "" {
-		dir = t.TempDir()
-	}
-	path := filepath.Join(dir, name+".mp4")
-	tdir := filepath.Join(dir, name+".truth")
-	if _, err := os.Stat(path); err == nil {
-		if tr, err := meadow.ReadTruthDir(tdir); err == nil {
-			return path, tr
-		}
-	}
-	tr, err := meadow.WriteClip(cfg, path, nil)
+	path, tr, err := meadow.CachedClip(cfg, meadow.TestCacheDir(), ".mp4")
 	if err != nil {
-		t.Fatal(err)
-	}
-	if err := tr.WriteDir(tdir); err != nil {
 		t.Fatal(err)
 	}
 	return path, tr
