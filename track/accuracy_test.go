@@ -4,8 +4,6 @@ import (
 	"errors"
 	"io"
 	"math"
-	"os"
-	"path/filepath"
 	"testing"
 
 	"gocv.io/x/gocv"

@@ -163,4 +163,3 @@ func MatchLandings(a, b []Landing, toleranceS float64) []Pair {
 	sort.Slice(pairs, func(x, y int) bool { return pairs[x].A < pairs[y].A })
 	return pairs
 }
-

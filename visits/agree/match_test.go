@@ -129,7 +129,6 @@ func TestMatchLandingsOptimal(t *testing.T) {
 	}
 }
 
-
 func TestGap(t *testing.T) {
 	for _, tc := range []struct {
 		name string
