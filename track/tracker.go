@@ -50,14 +50,14 @@ const DefaultLinkAccelBLPerS2 = 200
 
 // Stats count what the Tracker saw, for the run summary.
 type Stats struct {
-	Frames           int     // frames stepped
-	Detections       int     // detections passed to the linker
-	DisturbedFrames  int     // frames skipped as disturbed (see Settings.DisturbedFrac)
-	BackgroundResets int     // restarts of the background after a long disturbance
-	StationaryTracks int     // tracks dropped by Finish for never moving MinTravelBL
-	WorkFactor       int     // the frame is reduced by this factor for detection
-	BodyLengthPX     float64 // expected bee length, px
-	MeanShiftPX      float64 // mean magnitude of the estimated camera shake, px (0 without Stabilize)
+	Frames           int     `json:"frames"`                    // frames stepped
+	Detections       int     `json:"detections"`                // detections passed to the linker
+	DisturbedFrames  int     `json:"disturbed_frames"`          // frames skipped as disturbed (see Settings.DisturbedFrac)
+	BackgroundResets int     `json:"background_resets"`         // restarts of the background after a long disturbance
+	StationaryTracks int     `json:"stationary_tracks_dropped"` // tracks dropped by Finish for never moving MinTravelBL
+	WorkFactor       int     `json:"work_factor"`               // the frame is reduced by this factor for detection
+	BodyLengthPX     float64 `json:"body_length_px"`            // expected bee length, px
+	MeanShiftPX      float64 `json:"mean_shake_px"`             // mean magnitude of the estimated camera shake, px (0 without Stabilize)
 }
 
 // NewTracker prepares a Tracker for a clip described by info. It returns

@@ -44,6 +44,7 @@ type clipAnalysis struct {
 	Kinematics []kinematics.Result
 	Visits     visits.Result
 	Background image.Image // background model at the end, for plots
+	TrackStats track.Stats // what segmentation did (disturbed frames, shake, ...)
 
 	ElapsedS float64
 }
@@ -194,9 +195,13 @@ func analyzeClip(ctx context.Context, path string, s Settings, prog progressSink
 		return nil, fmt.Errorf("no frame could be decoded: is this a video file? try playing it, or re-export it as H.264 MP4")
 	}
 	if hf := a.Info.HeaderFrames; hf > 0 && !a.Partial && absInt(hf-a.FramesRead) > max(2, hf/100) {
-		a.Warnings = append(a.Warnings, fmt.Sprintf("the file header says %d frames but %d were decoded", hf, a.FramesRead))
+		a.Warnings = append(a.Warnings, fmt.Sprintf("the file header says %d frames but %d were decoded (empty repeat frames of some AVI files do not count; times follow the file's own timestamps)", hf, a.FramesRead))
 	}
 	a.Tracks = tr.Finish()
+	a.TrackStats = tr.Stats()
+	if st := a.TrackStats; st.Frames > 0 && st.DisturbedFrames > st.Frames/20 {
+		a.Warnings = append(a.Warnings, fmt.Sprintf("%d of %d frames were too disturbed to analyse (sudden light change or camera movement); try --stabilize", st.DisturbedFrames, st.Frames))
+	}
 	bg := gocv.NewMat()
 	tr.Background(&bg)
 	if !bg.Empty() {

@@ -15,6 +15,7 @@ import (
 	"gocv.io/x/gocv"
 
 	"flitlog/kinematics"
+	"flitlog/track"
 	"flitlog/visits"
 )
 
@@ -284,12 +285,13 @@ type summaryJSON struct {
 		Flights       int      `json:"flights"`
 		MeanHandlingS *float64 `json:"mean_handling_s"`
 	} `json:"counts"`
-	Tracks     []trackSummary  `json:"tracks"`
-	Visits     *visits.Summary `json:"visits,omitempty"`
-	Settings   Settings        `json:"settings"`
-	Resume     resumeKey       `json:"resume"`
-	Files      []string        `json:"files"`
-	Processing struct {
+	Tracks       []trackSummary  `json:"tracks"`
+	Visits       *visits.Summary `json:"visits,omitempty"`
+	Settings     Settings        `json:"settings"`
+	Resume       resumeKey       `json:"resume"`
+	Files        []string        `json:"files"`
+	Segmentation track.Stats     `json:"segmentation"`
+	Processing   struct {
 		ElapsedS      float64 `json:"elapsed_s"`
 		FramesPerS    float64 `json:"frames_per_s"`
 		FinishedAtUTC string  `json:"finished_at_utc"`
@@ -352,6 +354,7 @@ func buildSummary(a *clipAnalysis, s Settings, key resumeKey, r clipResult, file
 		sum.Tracks = append(sum.Tracks, ts)
 	}
 	sum.Settings = s
+	sum.Segmentation = a.TrackStats
 	sum.Resume = key
 	sum.Files = append(files, fileSummary)
 	sum.Processing.ElapsedS = a.ElapsedS
