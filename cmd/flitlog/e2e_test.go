@@ -9,6 +9,9 @@ import (
 	"strings"
 	"testing"
 
+	"gocv.io/x/gocv"
+
+	"flitlog/track"
 	"flitlog/track/meadow"
 	"flitlog/track/mot"
 	"flitlog/visits"
@@ -437,5 +440,43 @@ func TestRunFlowerMapAndScaleErrors(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestRunOverlay: --overlay writes overlay.mp4 with every frame of the clip.
+func TestRunOverlay(t *testing.T) {
+	dir := t.TempDir()
+	clip := tinyClips(t, dir, 1)[0]
+	out := filepath.Join(dir, "out")
+	if code, _, stderr := runMain("run", "--quiet", "--overlay", "--px-per-mm", "0.8", "--out", out, clip); code != exitOK {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	ov := filepath.Join(out, clipBase(clip), fileOverlay)
+	src, err := track.Open(ov, track.SourceOptions{})
+	if err != nil {
+		t.Fatalf("overlay does not open: %v", err)
+	}
+	defer src.Close()
+	in, err := track.Open(clip, track.SourceOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer in.Close()
+	oi, ii := src.Info(), in.Info()
+	if oi.WidthPX != ii.WidthPX || oi.HeightPX != ii.HeightPX || oi.FourCC != "avc1" && oi.FourCC != "h264" {
+		t.Errorf("overlay %dx%d %s, clip %dx%d", oi.WidthPX, oi.HeightPX, oi.FourCC, ii.WidthPX, ii.HeightPX)
+	}
+	n := 0
+	m := gocv.NewMat()
+	defer m.Close()
+	for {
+		if _, err := src.Next(&m); err != nil {
+			break
+		}
+		n++
+	}
+	sum := readSummary(t, filepath.Join(out, clipBase(clip), fileSummary))
+	if want := int(sum["clip"].(map[string]any)["frames_read"].(float64)); n != want {
+		t.Errorf("overlay has %d frames, the clip %d", n, want)
 	}
 }
