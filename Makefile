@@ -5,7 +5,7 @@
 
 GO      ?= go
 BIN     := bin/flitlog
-FUZZT   ?= 10s
+FUZZT   ?= 20000x
 export CGO_ENABLED := 1
 
 .PHONY: all deps samples build demo test fuzz bench clean

@@ -38,7 +38,8 @@ func ftoaBench(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 // and full-pipeline frames/s in alternating rounds, their ratio, the
 // real-time factor, and the peak resident memory of 'flitlog run' and of a
 // decode-only process. Metrics: decode_fps, pipeline_fps, ratio,
-// realtime_x, peak_rss_MB, decode_rss_MB, cli_fps, and the accuracy of the
+// realtime_x, peak_rss_MB, decode_rss_MB, cli_fps, free_cores (what the
+// shared machine had to give, see freeCores), and the accuracy of the
 // pipeline's outputs against the scene's truth (mota, idf1, landing_f1),
 // so that speed is never bought with accuracy unnoticed.
 func BenchmarkPipeline(b *testing.B) {
@@ -177,7 +178,8 @@ const batchClips = 8
 // BenchmarkBatch runs 'flitlog run' on a folder of 8 clips (720p30, 12 s
 // each) with --workers 1 and --workers 2, alternating the order between
 // rounds. Metrics: w1_s and w2_s (median wall time, s), speedup_x (median
-// of the per-round ratios w1/w2), peak_rss_MB_w1 and peak_rss_MB_w2.
+// of the per-round ratios w1/w2), cpu_s_w1 and cpu_s_w2 (median CPU time
+// of the batch, s), free_cores, peak_rss_MB_w1 and peak_rss_MB_w2.
 func BenchmarkBatch(b *testing.B) {
 	b.Run(fmt.Sprintf("%dx720p30_12s", batchClips), func(b *testing.B) {
 		dir := b.TempDir()
