@@ -212,6 +212,16 @@ func (t *track) index(f int) int {
 
 // timeAfter is the time of the frame after sample i: the take-off time
 // of a landing whose last sample is i.
+// cut reports whether samples i0..i1 are cut at their start or end: they
+// begin at the track's first sample or end at its last, or border a gap
+// that merging did not bridge.
+func (t *track) cut(i0, i1 int) (start, end bool) {
+	n := len(t.smp)
+	start = i0 == 0 || t.smp[i0-1].Frame != t.smp[i0].Frame-1
+	end = i1 == n-1 || t.smp[i1+1].Frame != t.smp[i1].Frame+1
+	return start, end
+}
+
 func (a *analyzer) timeAfter(t *track, i int) float64 {
 	f := t.smp[i].Frame + 1
 	if i+1 < len(t.smp) && t.smp[i+1].Frame == f {
@@ -344,12 +354,9 @@ func (a *analyzer) landings(t *track) []Landing {
 			EndFrame:   t.smp[r.i1].Frame,
 			StartS:     t.smp[r.i0].TimeS,
 			EndS:       a.timeAfter(t, r.i1),
-			// A landing at the track's first (last) sample, or next to a
-			// gap that merging did not bridge, is cut.
-			CensoredStart: r.i0 == 0 || t.smp[r.i0-1].Frame != t.smp[r.i0].Frame-1,
-			CensoredEnd:   r.i1 == n-1 || t.smp[r.i1+1].Frame != t.smp[r.i1].Frame+1,
-			RewardUL:      math.NaN(),
+			RewardUL:   math.NaN(),
 		}
+		l.CensoredStart, l.CensoredEnd = t.cut(r.i0, r.i1)
 		l.DurationS = l.EndS - l.StartS
 		min := s.MinLandingS
 		if l.CensoredStart || l.CensoredEnd {
@@ -487,16 +494,15 @@ func (a *analyzer) inspections(t *track, ls []Landing) []Inspection {
 		for _, r := range a.merge(t, part, a.mergeGapFrames, minFrames) {
 			f := a.fm.Flowers[r.k]
 			in := Inspection{
-				TrackID:       t.id,
-				FlowerID:      f.ID,
-				FlowerKind:    f.Kind,
-				StartFrame:    t.smp[r.i0].Frame,
-				EndFrame:      t.smp[r.i1].Frame,
-				StartS:        t.smp[r.i0].TimeS,
-				EndS:          a.timeAfter(t, r.i1),
-				CensoredStart: r.i0 == 0 || t.smp[r.i0-1].Frame != t.smp[r.i0].Frame-1,
-				CensoredEnd:   r.i1 == n-1 || t.smp[r.i1+1].Frame != t.smp[r.i1].Frame+1,
+				TrackID:    t.id,
+				FlowerID:   f.ID,
+				FlowerKind: f.Kind,
+				StartFrame: t.smp[r.i0].Frame,
+				EndFrame:   t.smp[r.i1].Frame,
+				StartS:     t.smp[r.i0].TimeS,
+				EndS:       a.timeAfter(t, r.i1),
 			}
+			in.CensoredStart, in.CensoredEnd = t.cut(r.i0, r.i1)
 			in.DurationS = in.EndS - in.StartS
 			if in.DurationS < s.MinInspectionS-1e-9 {
 				continue
