@@ -149,7 +149,7 @@ func scorecard(dir string, truth *meadow.Truth) (string, error) {
 		if err != nil {
 			return "", err
 		}
-		fmt.Fprintf(tw, "tracking (points with a detection)\tvalue\ttarget\t\n")
+		fmt.Fprintf(tw, "tracking (points with a detection)\tvalue\ttarget (test scenes)\t\n")
 		row(tw, "MOTA (Bernardin & Stiefelhagen 2008)", sc.MOTA, "%.3f", ">= 0.98 (one bee)")
 		row(tw, "IDF1 (Ristani et al. 2016)", sc.IDF1, "%.3f", ">= 0.90")
 		row(tw, "position RMSE, px", sc.RMSEPX, "%.2f", "<= 1.5")
@@ -168,7 +168,7 @@ func scorecard(dir string, truth *meadow.Truth) (string, error) {
 		fmt.Fprintf(&b, "inspections: not scored: %v\n", errI)
 	default:
 		vs := visits.ScoreAgainstTruth(truth.Landings, truth.Inspections, gotL, gotI)
-		fmt.Fprintf(tw, "landings and inspections\tvalue\ttarget\t\n")
+		fmt.Fprintf(tw, "landings and inspections\tvalue\ttarget (test scenes)\t\n")
 		fmt.Fprintf(tw, "landings: truth / found\t%d / %d\t\t\n", len(truth.Landings), len(gotL))
 		row(tw, "landing F1", vs.LandingF1, "%.3f", ">= 0.98")
 		row(tw, "onset error, median frames", vs.OnsetErrMedianFrames, "%.1f", "<= 1")
