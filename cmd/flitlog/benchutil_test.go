@@ -55,7 +55,6 @@ import (
 
 	"flitlog/track"
 	"flitlog/track/meadow"
-	"flitlog/track/mot"
 	"flitlog/visits"
 )
 
@@ -518,17 +517,7 @@ type accuracy struct {
 
 func scoreOutputs(dir string, truth *meadow.Truth) (accuracy, error) {
 	acc := accuracy{math.NaN(), math.NaN(), math.NaN(), math.NaN()}
-	hyp, err := readTracksCSV(filepath.Join(dir, fileTracks))
-	if err != nil {
-		return acc, err
-	}
-	var gt []mot.Obs
-	for _, p := range truth.Points {
-		if p.Visible {
-			gt = append(gt, mot.Obs{Frame: p.Frame, ID: p.BeeID, XPX: p.XPX, YPX: p.YPX})
-		}
-	}
-	sc, err := mot.Evaluate(gt, hyp, 0.5*truth.Config.BeeLengthMM*truth.PXPerMM)
+	sc, err := scoreTracking(filepath.Join(dir, fileTracks), truth)
 	if err != nil {
 		return acc, err
 	}

@@ -239,7 +239,9 @@ func analyzeClip(ctx context.Context, path string, s Settings, prog progressSink
 		}
 		kr, err := kinematics.Analyze(kt, s.Kinematics)
 		if err != nil {
-			return nil, fmt.Errorf("kinematics of track %d: %v", t.ID, err)
+			// One bad track must not cost the clip its other tracks.
+			a.Warnings = append(a.Warnings, fmt.Sprintf("track %d left out of kinematics and visits: %v", t.ID, oneLine(err.Error())))
+			continue
 		}
 		a.Kinematics = append(a.Kinematics, kr)
 	}

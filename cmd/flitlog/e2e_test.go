@@ -13,7 +13,6 @@ import (
 
 	"flitlog/track"
 	"flitlog/track/meadow"
-	"flitlog/track/mot"
 	"flitlog/visits"
 )
 
@@ -117,17 +116,7 @@ func TestRunEndToEndSingleBee(t *testing.T) {
 	}
 
 	// Tracking: targets of the tracking issue for one bee.
-	hyp, err := readTracksCSV(filepath.Join(cd, fileTracks))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var gt []mot.Obs
-	for _, p := range truth.Points {
-		if p.Visible {
-			gt = append(gt, mot.Obs{Frame: p.Frame, ID: p.BeeID, XPX: p.XPX, YPX: p.YPX})
-		}
-	}
-	sc, err := mot.Evaluate(gt, hyp, 0.5*truth.Config.BeeLengthMM*truth.PXPerMM)
+	sc, err := scoreTracking(filepath.Join(cd, fileTracks), truth)
 	if err != nil {
 		t.Fatal(err)
 	}
