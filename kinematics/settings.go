@@ -173,3 +173,10 @@ func (s Settings) windowFrames(dtS float64) int {
 	}
 	return n
 }
+
+// Validate reports the first field out of range as a *SettingsError, so a
+// settings file can be checked before any clip is read.
+func (s Settings) Validate() error {
+	_, err := s.withDefaults()
+	return err
+}

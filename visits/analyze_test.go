@@ -206,7 +206,10 @@ func absInt(x int) int {
 // TestIntakeRate checks the nectar intake arithmetic with facts of the
 // trade as check values (common practice): a full flower yielding about
 // 6 uL in about 3 s of handling gives about 2 uL/s; a poor one about 1 uL
-// in 1 s gives about 1 uL/s.
+// in 1 s gives about 1 uL/s. The bee of the test rests about 3 s on the
+// full flower, so the check covers the detected handling time as well as
+// the reward bookkeeping; the clip summary's own rates are checked against
+// its totals below.
 func TestIntakeRate(t *testing.T) {
 	full, poor := 6.0, 1.0
 	fm := FlowerMap{Flowers: []Flower{

@@ -210,3 +210,10 @@ func (s Settings) withDefaults() (Settings, error) {
 	}
 	return s, nil
 }
+
+// Validate reports the first field out of range as a *SettingsError, so a
+// settings file can be checked before any clip is read.
+func (s Settings) Validate() error {
+	_, err := s.withDefaults()
+	return err
+}

@@ -2,6 +2,8 @@ package main
 
 import (
 	"bytes"
+	"os"
+	"path/filepath"
 	"reflect"
 	"strings"
 	"testing"
@@ -135,4 +137,24 @@ func FuzzParseSettings(f *testing.F) {
 			}
 		}
 	})
+}
+
+// TestStageSettingsCheckedUpFront: a stage setting out of range in a
+// settings file stops the run before any clip, naming the setting.
+func TestStageSettingsCheckedUpFront(t *testing.T) {
+	dir := t.TempDir()
+	cases := []struct{ name, text, want string }{
+		{"kinematics", "[kinematics]\nsmooth_window_s = -1\n", "SmoothWindowS"},
+		{"visits", "[visits]\nmin_landing_s = -1\n", "visits settings"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			p := filepath.Join(dir, c.name+".toml")
+			os.WriteFile(p, []byte(c.text), 0o644)
+			code, _, stderr := runMain("run", "--config", p, filepath.Join(dir, "x.mp4"))
+			if code != exitUsage || !strings.Contains(stderr, c.want) {
+				t.Errorf("exit %d, stderr %q; want exit %d naming %q", code, stderr, exitUsage, c.want)
+			}
+		})
+	}
 }

@@ -113,6 +113,15 @@ func (s *Settings) Validate() error {
 	if s.Calibration.PXPerMM > 0 && s.Calibration.File != "" {
 		return fmt.Errorf("give either --px-per-mm or --calibration, not both")
 	}
+	if err := s.Track.Validate(); err != nil {
+		return fmt.Errorf("track settings: %v", err)
+	}
+	if err := s.Kinematics.Validate(); err != nil {
+		return fmt.Errorf("kinematics settings: %v", err)
+	}
+	if err := s.Visits.Validate(); err != nil {
+		return fmt.Errorf("visits settings: %v", err)
+	}
 	return nil
 }
 

@@ -21,6 +21,9 @@ func ExampleAssign() {
 	// Output: [1 0 2] 27
 }
 
+// The 0.99 quantile of chi-square with 2 degrees of freedom is 9.210 in
+// any statistical table (NIST/SEMATECH e-Handbook, upper critical values
+// of the chi-square distribution; see gate_test.go).
 func ExampleGateD2() {
 	fmt.Printf("%.3f\n", link.GateD2(0.99))
 	// Output: 9.210
