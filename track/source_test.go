@@ -89,6 +89,8 @@ func readAll(t testing.TB, src Source) ([]FrameInfo, error) {
 
 // TestSourceSampleClips reads the opencv-doc sample clips to the end and
 // checks frame counts and timestamps against each file's own AVI index.
+// Source of the files: Debian 12 package opencv-doc 4.6.0+dfsg-12; sizes,
+// rates and header frame counts below are those files' AVI headers.
 //
 // tree.avi declares 444 frames at 15 frames/s but 376 of its index
 // entries are drop frames (size 0): 68 pictures decode, each at the time
