@@ -74,19 +74,26 @@ func sceneSettings(tr *meadow.Truth) Settings {
 // for the test-time budget: each is the shortest clip that still holds
 // the events its targets are about.
 var testScenes = map[string]meadow.Config{
-	// One bee, a landing of at least 30 s, an inspection, an exit and
-	// re-entry, a leaf it passes behind.
-	"t_single": func() meadow.Config {
+	// One bee, the whole single preset (75 s): a landing of at least
+	// 30 s, half of it on a borage flower whose dark centre is as dark as
+	// the bee, two inspections, a revisit, an exit and re-entry, a leaf it
+	// passes behind.
+	"single": func() meadow.Config {
 		c, _ := meadow.Preset("single")
-		c.Name, c.DurationS = "t_single", 48
-		c.MinInspections, c.MinRevisits, c.MinExits = 1, 0, 1
 		return c
 	}(),
-	// Three bees with close passes, at 720p.
+	// The preset "three" (1920x1080, 30 fps) cut at 52 s of its 60 s. The
+	// scene is planned ahead, so the first 52 s are frame for frame those
+	// of the preset (the truth points agree exactly; checked when this
+	// was written). They hold all four close passes of the preset (frames
+	// 56-58, 498-506, 1116-1120, 1142) and both take-offs beside another
+	// bee: bee 1 leaves a flower past bee 0 hovering 1 body length away
+	// (frame 1116), and bee 0 leaves its hover 0.5 body lengths from bee
+	// 1 sitting on the flower (frame 1487). The last 8 s add landings
+	// only, and the render time they cost.
 	"t_three": func() meadow.Config {
 		c, _ := meadow.Preset("three")
-		c.Name, c.WidthPX, c.HeightPX, c.PXPerMM, c.DurationS = "t_three", 1280, 720, 1280.0/600, 30
-		c.Flowers = 8
+		c.Name, c.DurationS = "t_three", 52
 		return c
 	}(),
 	// Strong wind and camera shake.
@@ -119,8 +126,10 @@ func logScores(t *testing.T, what string, sc mot.Scores) {
 		what, sc.MOTA, sc.MOTP, sc.RMSEPX, sc.IDF1, sc.IDSwitches, sc.Misses, sc.FalsePositives, sc.HypTracks, sc.FalseTracks)
 }
 
-// TestAccuracySingleBee tracks one bee through a 48 s scene with a
-// landing of at least 30 s, an inspection, an exit and re-entry, and a
+// TestAccuracySingleBee tracks one bee through the 75 s single preset: a
+// landing of at least 30 s on a borage flower (the bee sits partly or
+// wholly on its dark centre, where only colour shows it; see chroma in
+// segment.go), two inspections, a revisit, an exit and re-entry, and a
 // leaf it flies behind. Targets of issue 3: MOTA >= 0.98, position RMSE
 // <= 1.5 px, no identity switch, the track kept through the long landing.
 //
@@ -130,7 +139,7 @@ func logScores(t *testing.T, what string, sc mot.Scores) {
 // points are scored separately and logged.
 func TestAccuracySingleBee(t *testing.T) {
 	t.Parallel()
-	path, truth := renderScene(t, "t_single", testScenes["t_single"])
+	path, truth := renderScene(t, "single", testScenes["single"])
 	tracks, st, _, err := trackFile(t, path, sceneSettings(truth))
 	if err != nil {
 		t.Fatal(err)
@@ -187,13 +196,17 @@ type visitsLanding struct {
 }
 
 // TestAccuracyThreeBees tracks three bees that pass close to each other
-// (30 s, 1280x720). Targets of issue 3: IDF1 >= 0.90 and at most 2
-// identity switches per minute.
+// and take off beside one another (t_three: the preset "three", 1920x1080,
+// cut at 52 s). Targets of issue 3: IDF1 >= 0.90 and at most 2 identity
+// switches per minute, on all points and on the detected points alone.
+// Track points are only where the tracker put them: gap closing leaves
+// the time a bee spends out of the picture without points, so points
+// invented there would count as false positives.
 func TestAccuracyThreeBees(t *testing.T) {
 	t.Parallel()
 	path, truth := renderScene(t, "t_three", testScenes["t_three"])
-	if len(truth.Crossings) < 2 {
-		t.Fatalf("scene has %d close passes, want >= 2", len(truth.Crossings))
+	if len(truth.Crossings) < 4 || truth.Frames < 1500 {
+		t.Fatalf("scene has %d close passes in %d frames, want >= 4 and both take-offs (frames 1116, 1487)", len(truth.Crossings), truth.Frames)
 	}
 	tracks, st, _, err := trackFile(t, path, sceneSettings(truth))
 	if err != nil {
@@ -217,7 +230,10 @@ func TestAccuracyThreeBees(t *testing.T) {
 // TestAccuracyWindy: strong wind sways grass (14 px) and flowers (6 px)
 // and the camera shakes (3 px); with Stabilize, at most 1 false track per
 // minute (issue 3). A false track is one of whose points fewer than half
-// lie on a bee (mot.Scores.FalseTracks).
+// lie on a bee (mot.Scores.FalseTracks). The bee keeps one identity:
+// IDF1 >= 0.90 on all points, so fragments on swaying grass that gap
+// closing chains to the bee's track count against it (our target; issue
+// 3 sets none for this scene).
 func TestAccuracyWindy(t *testing.T) {
 	t.Parallel()
 	path, truth := renderScene(t, "t_windy", testScenes["t_windy"])
@@ -239,8 +255,11 @@ func TestAccuracyWindy(t *testing.T) {
 	if st.MeanShiftPX < 0.5 || st.MeanShiftPX > 10 || math.IsNaN(st.MeanShiftPX) {
 		t.Errorf("mean estimated shake %.2f px, want a few px", st.MeanShiftPX)
 	}
-	// And the bee is followed for most of the clip.
+	// And the bee is followed for most of the clip, by one track.
 	if sc.MOTA < 0.5 {
 		t.Errorf("MOTA %.3f: the bee is lost", sc.MOTA)
+	}
+	if sc.IDF1 < 0.90 {
+		t.Errorf("IDF1 %.3f, want >= 0.90: the bee's track is fragmented or carries false pieces", sc.IDF1)
 	}
 }

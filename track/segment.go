@@ -40,7 +40,10 @@ type segParams struct {
 	resetS         float64 // consecutive disturbed time after which the background restarts, s
 	stabilize      bool
 	maxShiftWorkPX float64 // largest accepted shake at the working scale, px
-	colourEvery    int     // the colour background is updated every this many frames
+	colourEvery    int     // the colour background for plots is updated every this many frames
+	minChroma      float64 // least chromaticity distortion counted as foreground, grey levels
+	cVarFloor      float64 // floor of the per-pixel variance of the chromaticity distortion, grey levels^2
+	cVarInit       float64 // its value where the colour model starts, grey levels^2
 }
 
 // protectZone is a disc of the frame, px, in which the background is not
@@ -50,7 +53,11 @@ type protectZone struct {
 }
 
 // segmenter holds the background model of one clip and finds dark blobs
-// in each frame. All images but the frame itself are at the working scale
+// in each frame, and near tracked bees on ground as dark as a bee also
+// blobs of another colour (chroma; Horprasert, T., Harwood, D. & Davis,
+// L. S. (1999). A statistical approach for real-time robust background
+// subtraction and shadow detection. Proc. IEEE ICCV'99 FRAME-RATE
+// Workshop). All images but the frame itself are at the working scale
 // and are allocated once.
 type segmenter struct {
 	p              segParams
@@ -68,6 +75,21 @@ type segmenter struct {
 	dt        float64 // time step of the current frame, s
 	haveSmall bool    // small holds the current frame in colour
 
+	// Colour model of the blind ground (see chroma), working scale.
+	// bodyGrey is the running body level of clearly seen tracked bees,
+	// grey levels, < 0 until the first; a cell is blind where darkness
+	// cannot show such a body: ShadowRatio mu - bodyGrey < MinContrastGrey.
+	bodyGrey float64
+	bgr      []uint8   // the current frame, full size, BGR
+	blind    []int32   // the blind cells of the current frame
+	cMu      []float32 // background colour of a cell, BGR
+	cVar     []float32 // variance of its chromaticity distortion
+	cD2      []float32 // squared chromaticity distortion in the current frame
+	cSeen    []int32   // frame (s.frames) at which the cell was last blind, 0 = never
+	cTaken   []int32   // frame at which the cell was put in blind (de-duplication)
+	cGap     []int32   // frames since the cell's previous update
+	cX       []float32 // colour of the blind cells in the current frame, BGR, in the order of blind
+
 	// counters for the report
 	disturbed, resets int
 
@@ -78,7 +100,10 @@ type segmenter struct {
 	d, d2, thr2    gocv.Mat // mu - x, its square, ThresholdSigma^2 var (32F)
 	zero           gocv.Mat // zeros (32F)
 	anyFg, darkFg  gocv.Mat // |d| > t, and d > t (8U)
-	det            gocv.Mat // darkFg after closing (8U)
+	chromaFg       gocv.Mat // blind cells of another colour (8U)
+	fg             gocv.Mat // darkFg or chromaFg (8U)
+	frameCopy      gocv.Mat // the frame, when its data is not continuous (8UC3)
+	det            gocv.Mat // fg of stable pixels, after closing (8U)
 	tmp            gocv.Mat // scratch (8U)
 	lmask, protect gocv.Mat // masks (8U)
 	notDark        gocv.Mat // where the gain is measured (8U)
@@ -115,9 +140,18 @@ func newSegmenter(p segParams, frameW, frameH int, roi gocv.Mat) *segmenter {
 		crop: image.Rect(0, 0, p.workW*k, p.workH*k),
 		gain: 1,
 	}
-	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.d, &s.d2, &s.thr2, &s.anyFg, &s.darkFg, &s.det, &s.tmp, &s.lmask, &s.labels, &s.stats, &s.cents, &s.small, &s.muBGR, &s.ref, &s.pcTmp, &s.noWindow, &s.unstable, &s.actTmp} {
+	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.d, &s.d2, &s.thr2, &s.anyFg, &s.darkFg, &s.fg, &s.frameCopy, &s.det, &s.tmp, &s.lmask, &s.labels, &s.stats, &s.cents, &s.small, &s.muBGR, &s.ref, &s.pcTmp, &s.noWindow, &s.unstable, &s.actTmp} {
 		*m = gocv.NewMat()
 	}
+	s.chromaFg = gocv.NewMatWithSizeFromScalar(gocv.NewScalar(0, 0, 0, 0), p.workH, p.workW, gocv.MatTypeCV8U)
+	nc := p.workW * p.workH
+	s.bodyGrey = -1
+	s.cMu = make([]float32, 3*nc)
+	s.cVar = make([]float32, nc)
+	s.cD2 = make([]float32, nc)
+	s.cSeen = make([]int32, nc)
+	s.cTaken = make([]int32, nc)
+	s.cGap = make([]int32, nc)
 	s.mu = gocv.NewMatWithSize(p.workH, p.workW, gocv.MatTypeCV32F)
 	s.vr = gocv.NewMatWithSize(p.workH, p.workW, gocv.MatTypeCV32F)
 	s.zero = gocv.NewMatWithSizeFromScalar(gocv.NewScalar(0, 0, 0, 0), p.workH, p.workW, gocv.MatTypeCV32F)
@@ -144,7 +178,7 @@ func newSegmenter(p segParams, frameW, frameH int, roi gocv.Mat) *segmenter {
 }
 
 func (s *segmenter) close() {
-	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.mu, &s.vr, &s.d, &s.d2, &s.thr2, &s.zero, &s.anyFg, &s.darkFg, &s.det, &s.tmp, &s.lmask, &s.protect, &s.notDark, &s.near, &s.roi, &s.labels, &s.stats, &s.cents, &s.kernel, &s.hann, &s.warpM, &s.small, &s.muBGR, &s.ref, &s.pcTmp, &s.noWindow, &s.act, &s.unstable, &s.actTmp} {
+	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.mu, &s.vr, &s.d, &s.d2, &s.thr2, &s.zero, &s.anyFg, &s.darkFg, &s.chromaFg, &s.fg, &s.frameCopy, &s.det, &s.tmp, &s.lmask, &s.protect, &s.notDark, &s.near, &s.roi, &s.labels, &s.stats, &s.cents, &s.kernel, &s.hann, &s.warpM, &s.small, &s.muBGR, &s.ref, &s.pcTmp, &s.noWindow, &s.act, &s.unstable, &s.actTmp} {
 		m.Close()
 	}
 }
@@ -187,6 +221,11 @@ func (s *segmenter) detect(frame gocv.Mat, index int, tS float64, zones, seeds [
 		panic(fmt.Sprintf("track: frame %d is %dx%d %v, want %dx%d CV8UC3", index, frame.Cols(), frame.Rows(), frame.Type(), s.frameW, s.frameH))
 	}
 	p := s.p
+	if !frame.IsContinuous() {
+		frame.CopyTo(&s.frameCopy)
+		frame = s.frameCopy
+	}
+	s.bgr, _ = frame.DataPtrUint8()
 	gocv.CvtColor(frame, &s.greyFull, gocv.ColorBGRToGray)
 	if s.crop.Dx() == s.frameW && s.crop.Dy() == s.frameH {
 		gocv.Resize(s.greyFull, &s.grey, image.Pt(p.workW, p.workH), 0, 0, gocv.InterpolationArea)
@@ -233,9 +272,12 @@ func (s *segmenter) detect(frame gocv.Mat, index int, tS float64, zones, seeds [
 	gocv.Compare(s.d2, s.thr2, &s.anyFg, gocv.CompareGT)
 	gocv.Compare(s.d, s.zero, &s.darkFg, gocv.CompareGT)
 	gocv.BitwiseAnd(s.darkFg, s.anyFg, &s.darkFg)
+	s.chroma()
+	gocv.BitwiseOr(s.darkFg, s.chromaFg, &s.fg)
 	if !s.roi.Empty() {
 		gocv.BitwiseAnd(s.anyFg, s.roi, &s.anyFg)
 		gocv.BitwiseAnd(s.darkFg, s.roi, &s.darkFg)
+		gocv.BitwiseAnd(s.fg, s.roi, &s.fg)
 	}
 	// A frame that changed over a large part of the picture (camera
 	// bumped, exposure jump, a corrupt frame) says nothing about bees and
@@ -253,7 +295,7 @@ func (s *segmenter) detect(frame gocv.Mat, index int, tS float64, zones, seeds [
 	}
 	s.distRunS = 0
 	s.dt = dt
-	// Temporal persistence: pixels that were dark foreground too often of
+	// Temporal persistence: pixels that were foreground too often of
 	// late (swaying leaf and flower edges, a dark flower centre rocking on
 	// its stalk) are left out, except where a confirmed bee is expected.
 	gocv.Threshold(s.act, &s.actTmp, float32(255*p.maxActivity), 255, gocv.ThresholdBinary)
@@ -261,12 +303,232 @@ func (s *segmenter) detect(frame gocv.Mat, index int, tS float64, zones, seeds [
 	gocv.BitwiseNot(s.protect, &s.tmp)
 	gocv.BitwiseAnd(s.unstable, s.tmp, &s.unstable)
 	gocv.BitwiseNot(s.unstable, &s.tmp)
-	gocv.BitwiseAnd(s.darkFg, s.tmp, &s.det)
+	gocv.BitwiseAnd(s.fg, s.tmp, &s.det)
 	s.haveSmall = false
 	if s.frames%s.p.colourEvery == 0 {
 		s.colour(frame)
 	}
 	return s.blobs(index)
+}
+
+// chroma finds, at the working scale, the blind cells of the current frame
+// (where the grey background is so dark that darkness cannot show a bee's
+// body: ShadowRatio mu - bodyGrey < MinContrastGrey, e.g. a dark flower
+// centre) and marks in chromaFg those whose colour differs from the
+// cell's colour background: there the bee is sought by colour instead
+// (its coloured bands, a body of another hue). The difference is the
+// chromaticity distortion of Horprasert et al. (1999, eq. 4-5, the same
+// weight on the three channels): with E the cell's background colour and
+// I its colour in this frame (the area mean of the cell, times the gain),
+//
+//	a = I.E / E.E,   CD^2 = |I - a E|^2 = I.I - (I.E)^2 / E.E,
+//
+// so CD is 0 for a shadow or a change of light (I = a E, whatever a) and
+// large for a change of hue. A cell is foreground when CD^2 >
+// ThresholdSigma^2 var_CD, var_CD its running variance floored at
+// (MinChromaGrey / ThresholdSigma)^2.
+//
+// Colour is sought only within one bee length of where a confirmed track
+// is expected (nearSeed), as the background is kept from learning there:
+// unguided, a colour test on dark ground sees every change of hue of
+// shade, soil and swaying leaves, and a bee that arrives is seen by
+// darkness first, over brighter ground. The colour model is updated every
+// frame for the blind cells within chromaZoneBL of those places, and every
+// chromaEvery frames for the other blind cells, so the test costs in
+// proportion to the blind ground: nothing before a bee has been seen
+// clearly (bodyGrey unknown) or where the ground is bright. A cell that
+// was not blind in the last chromaRestartS seconds starts its model from
+// the current frame.
+func (s *segmenter) chroma() {
+	out, _ := s.chromaFg.DataPtrUint8()
+	for _, i := range s.blind {
+		out[i] = 0
+	}
+	s.blind = s.blind[:0]
+	s.cX = s.cX[:0]
+	if s.bodyGrey < 0 {
+		return
+	}
+	p := s.p
+	lim := float32((s.bodyGrey + p.minContrast) / p.shadowRatio)
+	k, W := p.factor, p.workW
+	kf := float64(k)
+	now := int32(s.frames)
+	mu := float32s(s.mu)
+	// Blind cells within chromaZoneBL of a confirmed track's prediction,
+	// each once.
+	rw := chromaZoneBL * p.beeLenPX / kf
+	for _, sd := range s.seeds {
+		cx := (sd.XPX-(kf-1)/2)/kf - s.shiftX
+		cy := (sd.YPX-(kf-1)/2)/kf - s.shiftY
+		if !finite(cx) || !finite(cy) {
+			continue
+		}
+		for y := max(0, int(math.Floor(cy-rw))); y <= min(p.workH-1, int(math.Ceil(cy+rw))); y++ {
+			for x := max(0, int(math.Floor(cx-rw))); x <= min(W-1, int(math.Ceil(cx+rw))); x++ {
+				i := y*W + x
+				if mu[i] >= lim || s.cTaken[i] == now || (float64(x)-cx)*(float64(x)-cx)+(float64(y)-cy)*(float64(y)-cy) > rw*rw {
+					continue
+				}
+				s.blind = append(s.blind, int32(i))
+				s.cTaken[i] = now
+			}
+		}
+	}
+	if s.frames%chromaEvery == 0 {
+		// Every chromaEvery frames all blind cells, so that a cell a bee
+		// comes to has a model that has seen the ground move.
+		for i, m := range mu {
+			if m < lim && s.cTaken[i] != now {
+				s.blind = append(s.blind, int32(i))
+				s.cTaken[i] = now
+			}
+		}
+	}
+	ox := int(math.Round(s.shiftX * kf))
+	oy := int(math.Round(s.shiftY * kf))
+	inv := float32(s.gain) / float32(k*k)
+	t2 := float32(p.thresh2)
+	stale := int32(math.Max(2*chromaEvery, chromaRestartS*p.fps))
+	for _, i := range s.blind {
+		cx, cy := int(i)%W, int(i)/W
+		x0 := min(max(cx*k+ox, 0), s.frameW-k)
+		y0 := min(max(cy*k+oy, 0), s.frameH-k)
+		var b0, b1, b2 float32
+		for y := y0; y < y0+k; y++ {
+			row := s.bgr[(y*s.frameW+x0)*3 : (y*s.frameW+x0+k)*3]
+			for j := 0; j+2 < len(row); j += 3 {
+				b0 += float32(row[j])
+				b1 += float32(row[j+1])
+				b2 += float32(row[j+2])
+			}
+		}
+		x0f, x1f, x2f := b0*inv, b1*inv, b2*inv
+		s.cX = append(s.cX, x0f, x1f, x2f)
+		j := 3 * int(i)
+		if s.cSeen[i] == 0 || now-s.cSeen[i] > stale {
+			s.cMu[j], s.cMu[j+1], s.cMu[j+2] = x0f, x1f, x2f
+			s.cVar[i] = float32(p.cVarInit)
+			s.cD2[i] = -1 // new: not learned from this frame
+			s.cSeen[i] = now
+			continue
+		}
+		s.cGap[i] = now - s.cSeen[i]
+		s.cSeen[i] = now
+		e0, e1, e2 := s.cMu[j], s.cMu[j+1], s.cMu[j+2]
+		ii := x0f*x0f + x1f*x1f + x2f*x2f
+		c := ii
+		if ee := e0*e0 + e1*e1 + e2*e2; ee > 1 {
+			ie := x0f*e0 + x1f*e1 + x2f*e2
+			c = max(0, ii-ie*ie/ee)
+		}
+		s.cD2[i] = c
+		if c > t2*s.cVar[i] && s.nearSeed((float64(cx)+s.shiftX)*float64(k)+float64(k-1)/2, (float64(cy)+s.shiftY)*float64(k)+float64(k-1)/2) {
+			out[i] = 255
+		}
+	}
+}
+
+// nearSeed reports whether frame point (x, y), px, lies within one bee
+// length of the predicted position of a confirmed track: where colour is
+// sought (see chroma).
+func (s *segmenter) nearSeed(x, y float64) bool {
+	r2 := s.p.beeLenPX * s.p.beeLenPX
+	for _, sd := range s.seeds {
+		if dx, dy := x-sd.XPX, y-sd.YPX; dx*dx+dy*dy <= r2 {
+			return true
+		}
+	}
+	return false
+}
+
+// chromaZoneBL: the colour model is kept for the blind cells within this
+// many body lengths of where a confirmed track is expected, body lengths.
+// A bee comes from farther in a few frames at most, so a cell it lands on
+// has had a model for several frames.
+const chromaZoneBL = 3.0
+
+// chromaEvery: the colour model of the blind cells far from tracked bees
+// is updated every this many frames.
+const chromaEvery = 8
+
+// chromaRestartS: the colour model of a cell that was not blind for this
+// long starts again from the current frame, s.
+const chromaRestartS = 1.0
+
+// learnChroma updates the colour model of the blind cells not under a
+// confirmed bee, like the grey model: the variance of the chromaticity
+// distortion at rate aVar (clamped like the grey deviation), the colour
+// at aFG where the cell is foreground and aBG elsewhere. A cell last
+// updated n frames ago learns at the rate of n frames, 1 - (1 - a)^n.
+func (s *segmenter) learnChroma(aBG, aFG, aVar float64) {
+	if len(s.blind) == 0 {
+		return
+	}
+	p := s.p
+	prot, _ := s.protect.DataPtrUint8()
+	fg, _ := s.fg.DataPtrUint8()
+	floor, clamp := float32(p.cVarFloor), float32(p.varClamp)
+	for n, i := range s.blind {
+		if prot[i] != 0 || s.cD2[i] < 0 {
+			continue
+		}
+		gap := float64(max(1, s.cGap[i]))
+		av := float32(1 - math.Pow(1-aVar, gap))
+		s.cVar[i] = max(floor, s.cVar[i]+av*(min(s.cD2[i], clamp)-s.cVar[i]))
+		a := float32(1 - math.Pow(1-aBG, gap))
+		if fg[i] != 0 {
+			a = float32(1 - math.Pow(1-aFG, gap))
+		}
+		j := 3 * int(i)
+		for ch := 0; ch < 3; ch++ {
+			s.cMu[j+ch] += a * (s.cX[3*n+ch] - s.cMu[j+ch])
+		}
+	}
+}
+
+// chromaAt returns the chromaticity distortion of frame pixel (x, y)
+// against the colour background of its working cell (u, v) (see chroma)
+// and the threshold t_c = max(ThresholdSigma sqrt(var_CD),
+// MinChromaGrey), grey levels; ok is false where the cell has no colour
+// model this frame.
+func (s *segmenter) chromaAt(x, y int, u, v float64) (cd, tc float64, ok bool) {
+	p := s.p
+	cx := min(max(int(math.Round(u)), 0), p.workW-1)
+	cy := min(max(int(math.Round(v)), 0), p.workH-1)
+	i := cy*p.workW + cx
+	if s.cSeen[i] != int32(s.frames) || s.cD2[i] < 0 {
+		return 0, 0, false
+	}
+	g := s.gain
+	k := (y*s.frameW + x) * 3
+	I := [3]float64{g * float64(s.bgr[k]), g * float64(s.bgr[k+1]), g * float64(s.bgr[k+2])}
+	E := [3]float64{float64(s.cMu[3*i]), float64(s.cMu[3*i+1]), float64(s.cMu[3*i+2])}
+	return math.Sqrt(chromaDist2(I, E)), math.Max(math.Sqrt(p.thresh2*float64(s.cVar[i])), p.minChroma), true
+}
+
+// chromaDist2 returns the squared chromaticity distortion of colour I
+// against background colour E (Horprasert et al. 1999, eq. 4-5, equal
+// channel weights): |I - a E|^2 with a = I.E / E.E, written
+// I.I - (I.E)^2 / E.E; against a black background (E.E <= 1) it is I.I.
+func chromaDist2(I, E [3]float64) float64 {
+	ii := I[0]*I[0] + I[1]*I[1] + I[2]*I[2]
+	ee := E[0]*E[0] + E[1]*E[1] + E[2]*E[2]
+	if ee <= 1 {
+		return ii
+	}
+	ie := I[0]*E[0] + I[1]*E[1] + I[2]*E[2]
+	return math.Max(0, ii-ie*ie/ee)
+}
+
+// learnBody updates the running body level bodyGrey (an exponential
+// average over clearly seen tracked bees) with a blob's body level.
+func (s *segmenter) learnBody(body float64) {
+	const a = 0.05
+	if s.bodyGrey < 0 {
+		s.bodyGrey = body
+	}
+	s.bodyGrey += a * (body - s.bodyGrey)
 }
 
 // align estimates the camera shake of the working image by phase
@@ -342,6 +604,9 @@ func (s *segmenter) restart(frame gocv.Mat) {
 	if !s.roi.Empty() {
 		gocv.BitwiseAnd(s.notDark, s.roi, &s.notDark)
 	}
+	for i := range s.cSeen {
+		s.cSeen[i] = 0
+	}
 	s.colour(frame)
 	s.small.ConvertTo(&s.muBGR, gocv.MatTypeCV32FC3)
 	s.haveSmall = false
@@ -393,6 +658,7 @@ func (s *segmenter) learn(zones []protectZone, dets []Detection) {
 		// (that ghost is brighter than the model).
 		aBG = math.Max(aBG, c)
 	}
+	s.learnChroma(aBG, aFG, math.Max(c, aVar))
 	// Variance first, from the deviation against the mean before the
 	// update: var <- (1-a) var + a min(d^2, clamp), everywhere but under
 	// bees. Foreground pixels count too, so that pixels that keep
@@ -404,7 +670,7 @@ func (s *segmenter) learn(zones []protectZone, dets []Detection) {
 	// the normal rate, so that a bee hovering in the first seconds does
 	// not teach its own pixels a huge variance.
 	gocv.BitwiseNot(s.protect, &s.lmask)
-	gocv.AccumulatedWeightedWithMask(s.darkFg, &s.act, alpha(s.dt, p.actTauS), s.lmask)
+	gocv.AccumulatedWeightedWithMask(s.fg, &s.act, alpha(s.dt, p.actTauS), s.lmask)
 	gocv.Threshold(s.d2, &s.d2, float32(p.varClamp), 0, gocv.ThresholdTrunc)
 	if c <= aVar || len(dets) == 0 {
 		gocv.AccumulatedWeightedWithMask(s.d2, &s.vr, math.Max(c, aVar), s.lmask)
@@ -675,12 +941,20 @@ func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) []blob {
 			b := bilin(c.mu, u, v)
 			I := g * float64(c.grey[y*s.frameW+x])
 			fg := b-I > math.Max(math.Sqrt(p.thresh2*bilin(c.vr, u, v)), p.minContrast)
-			if fg || rho*b > I {
-				s.pix = append(s.pix, pixel{x: int32(x), y: int32(y), b: float32(b), i: float32(I), fg: fg})
+			blind := s.bodyGrey >= 0 && rho*b-s.bodyGrey < p.minContrast && s.nearSeed(float64(x), float64(y))
+			if fg || rho*b > I || blind {
+				q := pixel{x: int32(x), y: int32(y), b: float32(b), i: float32(I), fg: fg, blind: blind}
+				if blind {
+					if cd, tc, ok := s.chromaAt(x, y, u, v); ok && cd > tc {
+						q.cw = float32(math.Min(1, (cd-tc)/tc))
+						q.fg = true
+					}
+				}
+				s.pix = append(s.pix, q)
 			}
 		}
 	}
-	s.weigh(rho)
+	body := s.weigh(rho)
 	whole := blobOf(s.pix)
 	if whole.m0 <= 0 || whole.area == 0 {
 		return nil
@@ -695,33 +969,57 @@ func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) []blob {
 	}
 	if len(in) < 2 || float64(whole.area) < p.splitAreaPX {
 		whole.seed = nearestSeed(whole, s.seeds, 0.6*p.beeLenPX)
+		if whole.seed >= 0 && float64(len(s.dark)) >= p.minBodyPX && !s.anyBlind() {
+			s.learnBody(body) // a tracked bee, clearly seen
+		}
 		return []blob{whole}
 	}
 	return s.split(in)
 }
 
 // pixel is one pixel of a blob at full size: background b and brightness
-// I (grey levels), weight w (see weigh) and whether it is foreground.
+// I (grey levels), weight w (see weigh), whether it is foreground, whether
+// it lies on blind ground (see chroma) and, there, its colour weight cw
+// (see weigh).
 type pixel struct {
-	x, y int32
-	b, i float32
-	w    float32
-	fg   bool
+	x, y  int32
+	b, i  float32
+	w, cw float32
+	fg    bool
+	blind bool
 }
 
-// weigh sets the weights of the blob's pixels: how much of each pixel is
-// covered by dark bee body, from its brightness between the darkest body
-// level and the darkest a shadow could make the ground,
+// anyBlind reports whether a pixel of the current blob lies on blind ground.
+func (s *segmenter) anyBlind() bool {
+	for _, q := range s.pix {
+		if q.blind {
+			return true
+		}
+	}
+	return false
+}
+
+// weigh sets the weights of the blob's pixels and returns the body level
+// I_body used (-1 if none): how much of each pixel is covered by dark bee
+// body, from its brightness between the darkest body level and the
+// darkest a shadow could make the ground,
 //
 //	w = clamp((rho b - I) / (rho b - I_body), 0, 1),
 //
 // where I_body is the 10th percentile of I over the pixels darker than
-// rho b. Inside the body w = 1 whatever the ground; a shadow (I >= rho b)
-// gets 0; the soft edge gets a share that grows with the pixel's
-// coverage, the same on every side. So the weighted centroid is that of
-// the body's outline, not pulled toward the side with the brighter
-// ground, as plain darkness weights (b - I) would be.
-func (s *segmenter) weigh(rho float64) {
+// rho b (the running bodyGrey when there are none). Inside the body w = 1
+// whatever the ground; a shadow (I >= rho b) gets 0; the soft edge gets a
+// share that grows with the pixel's coverage, the same on every side. So
+// the weighted centroid is that of the body's outline, not pulled toward
+// the side with the brighter ground, as plain darkness weights (b - I)
+// would be.
+//
+// On blind ground (see chroma), where darkness cannot show the body, a
+// pixel of another colour than the background (CD > t_c, see chromaAt) is
+// body too: w = max(w, cw), cw = clamp((CD - t_c) / t_c, 0, 1). Elsewhere
+// colour does not enter the weights, so that wings and pale bands over
+// bright ground do not move the centroid.
+func (s *segmenter) weigh(rho float64) float64 {
 	dark := s.dark[:0]
 	for _, q := range s.pix {
 		if rho*float64(q.b) > float64(q.i) {
@@ -729,22 +1027,23 @@ func (s *segmenter) weigh(rho float64) {
 		}
 	}
 	s.dark = dark
-	if len(dark) == 0 {
-		for i := range s.pix {
-			s.pix[i].w = 0
-		}
-		return
+	body := s.bodyGrey
+	if len(dark) > 0 {
+		sort.Slice(dark, func(i, j int) bool { return dark[i] < dark[j] })
+		body = float64(dark[len(dark)/10])
 	}
-	sort.Slice(dark, func(i, j int) bool { return dark[i] < dark[j] })
-	body := float64(dark[len(dark)/10])
 	for i, q := range s.pix {
 		den := rho*float64(q.b) - body
 		w := 0.0
-		if den > 0 {
+		if den > 0 && body >= 0 {
 			w = math.Min(1, math.Max(0, (rho*float64(q.b)-float64(q.i))/den))
+		}
+		if q.blind {
+			w = math.Max(w, float64(q.cw))
 		}
 		s.pix[i].w = float32(w)
 	}
+	return body
 }
 
 // blobOf sums the moments, area, body count and box of pixels.

@@ -61,11 +61,25 @@ type Settings struct {
 	// floored at MinContrastGrey / ThresholdSigma. Default 14.
 	MinContrastGrey float64 `toml:"min_contrast_grey" json:"min_contrast_grey"`
 
+	// MinChromaGrey is the least chromaticity distortion counted as
+	// foreground, grey levels of 0..255, range 1..200. Where the ground is
+	// about as dark as a bee's body (a dark flower centre, deep shade) and
+	// within a body length of a tracked bee, a pixel whose colour differs
+	// from the background's by more than this, after scaling the
+	// background to the pixel's brightness (Horprasert et al. 1999), and
+	// by more than ThresholdSigma standard deviations of that distortion,
+	// is bee: its coloured bands, a body of another hue. A shadow or a
+	// change of light changes brightness only. The per-pixel deviation is
+	// floored at MinChromaGrey / ThresholdSigma. Default 12 (about four
+	// times the colour noise of a phone camera); 200 switches the colour
+	// test practically off.
+	MinChromaGrey float64 `toml:"min_chroma_grey" json:"min_chroma_grey"`
+
 	// ActivityTauS is the time over which each pixel's frequency of being
 	// dark foreground is averaged, s, range 0.5..600. Default 8.
 	ActivityTauS float64 `toml:"activity_tau_s" json:"activity_tau_s"`
 
-	// MaxActivity: a pixel that was dark foreground more than this
+	// MaxActivity: a pixel that was foreground more than this
 	// fraction of the time of late (ActivityTauS) is not used for
 	// detection, except where a confirmed bee is expected: swaying leaf
 	// and flower edges recur, a passing bee covers a pixel for a frame or
@@ -171,6 +185,7 @@ func (s Settings) withDefaults() Settings {
 	def(&s.ForegroundTauS, 60)
 	def(&s.ThresholdSigma, 3.5)
 	def(&s.MinContrastGrey, 14)
+	def(&s.MinChromaGrey, 12)
 	def(&s.ActivityTauS, 8)
 	def(&s.MaxActivity, 0.03)
 	def(&s.MinAreaFrac, 0.35)
@@ -205,6 +220,7 @@ func (s Settings) Validate() error {
 		{"foreground_tau_s", d.ForegroundTauS, d.BackgroundTauS, math.Inf(1), false},
 		{"threshold_sigma", d.ThresholdSigma, 1, 20, false},
 		{"min_contrast_grey", d.MinContrastGrey, 1, 200, false},
+		{"min_chroma_grey", d.MinChromaGrey, 1, 200, false},
 		{"activity_tau_s", d.ActivityTauS, 0.5, 600, false},
 		{"max_activity", d.MaxActivity, 0, 1, true},
 		{"min_area_frac", d.MinAreaFrac, 0, d.MaxAreaFrac, true},
@@ -247,6 +263,7 @@ func (s Settings) segParams(w, h int, fps float64) segParams {
 	blw := bl / float64(k)
 	expArea := math.Pi / 4 * blw * 0.45 * blw
 	floor := s.MinContrastGrey / s.ThresholdSigma
+	cFloor := s.MinChromaGrey / s.ThresholdSigma
 	return segParams{
 		factor: k, workW: w / k, workH: h / k, fps: fps,
 		beeLenPX:       bl,
@@ -274,5 +291,8 @@ func (s Settings) segParams(w, h int, fps float64) segParams {
 		stabilize:      s.Stabilize,
 		maxShiftWorkPX: 0.1 * float64(min(w, h)/k),
 		colourEvery:    max(1, int(math.Round(fps))),
+		minChroma:      s.MinChromaGrey,
+		cVarFloor:      cFloor * cFloor,
+		cVarInit:       4 * cFloor * cFloor,
 	}
 }

@@ -27,11 +27,18 @@ type Tracker struct {
 	zones  []protectZone
 	seeds  []protectZone
 	travel map[int]*travelled // by provisional track ID
+	edges  []edgeSeen         // detections at the frame border in the last second
 	stats  Stats
 	closed bool
 
 	shiftSum float64 // sum of the estimated shake magnitudes, px
 	shiftN   int
+}
+
+// edgeSeen is a detection that touched the frame border.
+type edgeSeen struct {
+	x, y  float64
+	frame int
 }
 
 // travelled records where a confirmed track started, where it was last,
@@ -40,7 +47,9 @@ type travelled struct {
 	x0, y0 float64 // first position, px
 	x, y   float64 // latest position (detection or prediction), px
 	far    bool
-	frame  int // frame of x, y
+	frame  int     // frame of x, y
+	dx, dy float64 // latest detection, px
+	dframe int     // frame of dx, dy
 }
 
 // DefaultLinkAccelBLPerS2 is the acceleration standard deviation of the
@@ -171,13 +180,14 @@ func (t *Tracker) Step(fi FrameInfo, frame gocv.Mat) error {
 	}
 	t.dets = t.seg.detect(frame, fi.Index, fi.TimeS, t.zones, t.seeds)
 	asg := t.lk.Step(fi.Index, t.dets)
+	t.noteEdges(fi.Index)
 
 	t.zones = t.zones[:0]
 	for _, a := range asg {
 		d := t.dets[a.DetIndex]
 		tv := t.travel[a.TrackID]
 		if tv == nil {
-			tv = &travelled{x0: d.XPX, y0: d.YPX, far: t.inherits(d, fi.Index) || t.atEdge(d)}
+			tv = &travelled{x0: d.XPX, y0: d.YPX, dframe: fi.Index, far: t.inherits(d, fi.Index) || t.fromEdge(d, fi.Index)}
 			t.travel[a.TrackID] = tv
 		}
 		if !tv.far && t.inherits(d, fi.Index) {
@@ -186,6 +196,7 @@ func (t *Tracker) Step(fi FrameInfo, frame gocv.Mat) error {
 			tv.far = true
 		}
 		tv.x, tv.y, tv.frame = d.XPX, d.YPX, fi.Index
+		tv.dx, tv.dy, tv.dframe = d.XPX, d.YPX, fi.Index
 		if dx, dy := d.XPX-tv.x0, d.YPX-tv.y0; dx*dx+dy*dy >= far2 {
 			tv.far = true
 		}
@@ -219,19 +230,67 @@ func (t *Tracker) Step(fi FrameInfo, frame gocv.Mat) error {
 
 // inherits reports whether detection d continues the path of a protected
 // track seen within the last second: within 2 body lengths of where it
-// was last, plus 1 body length per frame since. Then the track that got d
-// is protected too: the linker lost the bee as it braked to land and
-// started a new track on it, or gave it to a stale still track.
+// was last (detected or predicted), plus 1 body length per frame since.
+// Then the track that got d is protected too: the linker lost the bee as
+// it braked to land and started a new track on it, or gave it to a stale
+// still track. The latest detection counts as well as the latest
+// prediction: a coasting track's prediction can lag far behind a bee that
+// sped up while unseen.
 func (t *Tracker) inherits(d Detection, frame int) bool {
 	bl := t.p.beeLenPX
 	maxAge := int(math.Ceil(t.info.FPS))
+	near := func(x, y float64, at int) bool {
+		age := frame - at
+		if age < 0 || age > maxAge {
+			return false
+		}
+		r := 2*bl + float64(age)*bl
+		dx, dy := d.XPX-x, d.YPX-y
+		return dx*dx+dy*dy <= r*r
+	}
 	for _, tv := range t.travel {
-		age := frame - tv.frame
-		if !tv.far || age < 0 || age > maxAge {
+		if tv.far && (near(tv.x, tv.y, tv.frame) || near(tv.dx, tv.dy, tv.dframe)) {
+			return true
+		}
+	}
+	return false
+}
+
+// noteEdges remembers the detections of frame that touch the border and
+// forgets those older than a second.
+func (t *Tracker) noteEdges(frame int) {
+	maxAge := int(math.Ceil(t.info.FPS))
+	keep := t.edges[:0]
+	for _, e := range t.edges {
+		if frame-e.frame <= maxAge {
+			keep = append(keep, e)
+		}
+	}
+	t.edges = keep
+	for _, d := range t.dets {
+		if t.atEdge(d) {
+			t.edges = append(t.edges, edgeSeen{d.XPX, d.YPX, frame})
+		}
+	}
+}
+
+// fromEdge reports whether detection d, the first of a newly confirmed
+// track, is a bee that flew into the picture: it touches the border, or
+// lies within reach of a detection at the border in the last second (2
+// body lengths plus 1 per frame since; a track is confirmed a few frames
+// after its first detection, by which time the bee has left the border).
+func (t *Tracker) fromEdge(d Detection, frame int) bool {
+	if t.atEdge(d) {
+		return true
+	}
+	bl := t.p.beeLenPX
+	for _, e := range t.edges {
+		age := frame - e.frame
+		if age < 0 {
 			continue
 		}
 		r := 2*bl + float64(age)*bl
-		if dx, dy := d.XPX-tv.x, d.YPX-tv.y; dx*dx+dy*dy <= r*r {
+		if dx, dy := d.XPX-e.x, d.YPX-e.y; dx*dx+dy*dy <= r*r {
 			return true
 		}
 	}

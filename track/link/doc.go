@@ -34,6 +34,20 @@
 // filter of Kalata (1984) for the tracking index Lambda = sigma_a T^2 /
 // sigma_v; the tests check this.
 //
+// A confirmed track that is detected frame after frame runs two such
+// models in an interacting multiple model (IMM) filter (Blom &
+// Bar-Shalom 1988): "fly", the constant-velocity filter above, and
+// "hover", in which the bee stays where it is (position noise
+// HoverSigmaPX per frame, no velocity). The bee switches between them as
+// a Markov chain with mean sojourn ModeSwitchS; a switch from hover to fly
+// starts with velocity N(0, TakeoffSpeedPXPerS^2 I), the prior that
+// supplies the state the hover model lacks (mixing of unequal states,
+// Granstrom et al. 2015). The filter's combined estimate is the track's
+// state. A hovering bee's track thus expects its bee within a few px,
+// while a bee taking off beside it may leave fast: the hovering track
+// keeps the detection that stayed. While a track coasts or is merged the
+// single filter runs, and the IMM restarts at its next detection.
+//
 // # Association
 //
 // A detection z may go to a track only inside its gate: the squared
@@ -43,8 +57,12 @@
 // gated pairs the assignment of each frame maximises the number of pairs
 // and then minimises the total cost d^2 + ln det S (the negative
 // log-likelihood of the detection up to a constant; Blackman & Popoli
-// 1999), solved by the Hungarian method (Assign; Kuhn 1955, Munkres 1957)
-// first for confirmed tracks, then for tentative tracks with the
+// 1999; for an IMM track -2 ln of the mixture likelihood
+// sum_j c_j N(z; z_j, S_j), and d^2 in the gate the smallest over the
+// models), solved by the Hungarian method (Assign; Kuhn 1955, Munkres
+// 1957) in a matching cascade (Wojke et al. 2017): first for the
+// confirmed tracks detected lately, then for lost confirmed tracks (see
+// ReconfirmAfterMisses), then for tentative tracks, each with the
 // detections left. Every detection left after that starts a tentative
 // track.
 //
@@ -69,12 +87,22 @@
 //
 // # Gap closing
 //
-// Finish joins track fragments whose end and start fit one bee: by one
+// Finish first cuts every track where it coasted for more than
+// MaxCoastMovingS without a detection (a still track may coast for
+// MaxCoastStillS and then pick up another object: a bee arriving beside a
+// fragment on swaying grass), leaving the coasted stretch out. It then
+// joins track fragments whose end and start fit one bee: by one
 // optimal assignment over all fragment ends and starts in the block form
 // of Jaqaman et al. (2008), with the link costs and rules of gapLinkCost
 // (plausible speed, gap at most MaxGapS; long gaps only at the frame
-// border, nearby, or for a bee that sat unseen). Gaps are filled by linear
-// interpolation; points not detected have Observed = false. Finally
+// border, nearby after a flight, or for a bee that sat unseen). Gaps
+// inside the picture are filled by linear interpolation; points not
+// detected have Observed = false. A gap in which the bee left the picture
+// (its track was predicted out of the frame, or both ends lie at the
+// border more than MaxCoastMovingS apart) joins the identities but gets no
+// points: the track's frame numbers jump there. Tracks whose detections
+// make up less than MinDetectedFrac of their points are dropped (an M-of-N
+// deletion rule over the whole track; Blackman & Popoli 1999). Finally
 // fragments with fewer than MinObservedPoints detections, and stationary
 // tracks that appear and vanish in mid-clip, are dropped, and the tracks
 // are numbered 1..n by first frame.
@@ -84,11 +112,17 @@
 //   - Bar-Shalom Y, Li X R, Kirubarajan T (2001) Estimation with
 //     Applications to Tracking and Navigation. Wiley. (CV models Sec. 6.2-6.3,
 //     Joseph form Sec. 5.2.3, NIS test Sec. 5.4.2, alpha-beta Sec. 6.5.)
+//   - Blom H A P, Bar-Shalom Y (1988) The interacting multiple model
+//     algorithm for systems with Markovian switching coefficients. IEEE
+//     Transactions on Automatic Control 33(8):780-783.
 //   - Blackman S, Popoli R (1999) Design and Analysis of Modern Tracking
 //     Systems. Artech House. (Gating and assignment costs, Ch. 6.)
 //   - Bucy R S, Joseph P D (1968) Filtering for Stochastic Processes with
 //     Applications to Guidance. Interscience.
 //   - Burkard R, Dell'Amico M, Martello S (2009) Assignment Problems. SIAM.
+//   - Granstrom K, Willett P, Bar-Shalom Y (2015) Systematic approach to
+//     IMM mixing for unequal dimension states. IEEE Transactions on
+//     Aerospace and Electronic Systems 51(4).
 //   - Jaqaman K, Loerke D, Mettlen M, et al. (2008) Robust single-particle
 //     tracking in live-cell time-lapse sequences. Nature Methods 5:695-702.
 //   - Jonker R, Volgenant A (1987) A shortest augmenting path algorithm for
@@ -102,4 +136,7 @@
 //     Naval Research Logistics Quarterly 2:83-97.
 //   - Munkres J (1957) Algorithms for the assignment and transportation
 //     problems. Journal of the SIAM 5:32-38.
+//   - Wojke N, Bewley A, Paulus D (2017) Simple online and realtime
+//     tracking with a deep association metric. IEEE International
+//     Conference on Image Processing, 3645-3649. (Matching cascade.)
 package link

@@ -14,6 +14,9 @@ type fragment struct {
 	points []Point
 	// endSpeedPXPS is the filter's speed at the last point, px/s.
 	endSpeedPXPS float64
+	// exited is true if the fragment ended because its prediction left
+	// the frame (Settings.BoundsPX).
+	exited bool
 }
 
 func (f fragment) first() Point { return f.points[0] }
@@ -55,14 +58,22 @@ func (b frameBox) nearEdge(p Point, marginPX float64) bool {
 //	         still fragments far apart are not joined;
 //	         and, if g > MaxCoastMovingS, either both points lie within
 //	         EdgeMarginPX of the frame's border (the bee left the
-//	         picture and came back) or d <= MaxGateRadiusPX (it hid
-//	         behind something and came out nearby);
+//	         picture and came back) or d <= MaxGateRadiusPX and a
+//	         ends faster than StillSpeedPXPerS (it flew behind
+//	         something and came out nearby; from a still end, the bee
+//	         would have had to take off and fly unseen, and still
+//	         pieces that far from the next are what flickering foliage
+//	         makes);
 //	         cost g/MaxGapS + d/(MaxGateRadiusPX + vmax g) (the distance
 //	         scale does not vanish for short gaps, so that a short gap
 //	         with a jump is still preferred to a long one);
-//	sitting: g <= MaxCoastStillS, d <= MinGateRadiusPX and va <=
-//	         2 StillSpeedPXPerS (a was about still when it vanished),
-//	         cost g/MaxCoastStillS + d/MinGateRadiusPX;
+//	sitting: g <= MaxCoastStillS, va <= 2 StillSpeedPXPerS (a was
+//	         about still when it vanished) and d <= sitReach =
+//	         MinGateRadiusPX, or, if b's first motion points away from
+//	         a's end (departs), MinGateRadiusPX + min(MaxSpeedPXPerS,
+//	         2 vb + StillSpeedPXPerS) min(g, MaxCoastMovingS) (it sat
+//	         unseen and took off unseen shortly before b starts),
+//	         cost g/MaxCoastStillS + d/sitReach;
 //
 // the cheaper one is used. Each cost lies in [0, 2]: a shorter gap and a
 // slower implied speed are preferred. The rule for long gaps reflects that
@@ -105,17 +116,66 @@ func gapLinkCost(a, b fragment, s Settings, box frameBox) (cost float64, cut int
 		// A turn within the window hides speed from the displacement.
 		va = math.Max(va, a.endSpeedPXPS)
 	}
-	vmax := math.Min(s.MaxSpeedPXPerS, 2*math.Max(va, speedAfter(b.points, win, s.FPS))+s.StillSpeedPXPerS)
+	vb := speedAfter(b.points, win, s.FPS)
+	vmax := math.Min(s.MaxSpeedPXPerS, 2*math.Max(va, vb)+s.StillSpeedPXPerS)
 	reach := s.MinGateRadiusPX + vmax*g
-	longOK := g <= s.MaxCoastMovingS || d <= s.MaxGateRadiusPX ||
-		(box.nearEdge(ea, s.EdgeMarginPX) && box.nearEdge(sb, s.EdgeMarginPX))
+	atEdge := box.nearEdge(ea, s.EdgeMarginPX) && box.nearEdge(sb, s.EdgeMarginPX)
+	longOK := g <= s.MaxCoastMovingS || atEdge || (d <= s.MaxGateRadiusPX && va > s.StillSpeedPXPerS)
 	if g <= s.MaxGapS && d <= reach && longOK {
 		c = g/s.MaxGapS + d/(s.MaxGateRadiusPX+vmax*g)
 	}
-	if g <= s.MaxCoastStillS && d <= s.MinGateRadiusPX && s.MinGateRadiusPX > 0 && va <= 2*s.StillSpeedPXPerS {
-		c = math.Min(c, g/s.MaxCoastStillS+d/s.MinGateRadiusPX)
+	// Sitting: it may have taken off unseen within the last
+	// MaxCoastMovingS of the gap (longer, and it would have been seen),
+	// and then b flies on away from the seat.
+	sitReach := s.MinGateRadiusPX
+	if d > s.MinGateRadiusPX && departs(ea, b, win) {
+		sitReach += math.Min(s.MaxSpeedPXPerS, 2*vb+s.StillSpeedPXPerS) * math.Min(g, s.MaxCoastMovingS)
+	}
+	if g <= s.MaxCoastStillS && d <= sitReach && s.MinGateRadiusPX > 0 && va <= 2*s.StillSpeedPXPerS {
+		c = math.Min(c, g/s.MaxCoastStillS+d/sitReach)
 	}
 	return c + penalty, cut
+}
+
+// exitGap reports whether the bee left the picture between a's point
+// a.points[cut] and b's first point: a ended because its prediction left
+// the frame and was not cut back, or a was flying (faster than
+// StillSpeedPXPerS) when it ended, both points lie within EdgeMarginPX of
+// the frame's border and the gap is longer than MaxCoastMovingS (a flying
+// bee is not missed that long inside the picture; a bee sitting near the
+// border that vanishes has not left).
+func exitGap(a fragment, cut int, b fragment, s Settings, box frameBox) bool {
+	ea, sb := a.points[cut], b.first()
+	if a.exited && cut == len(a.points)-1 {
+		return true
+	}
+	g := float64(sb.Frame-ea.Frame) / s.FPS
+	va := speedBefore(a.points, cut, s.frames(s.SpeedWindowS), s.FPS)
+	if cut == len(a.points)-1 {
+		va = math.Max(va, a.endSpeedPXPS)
+	}
+	return g > s.MaxCoastMovingS && va > s.StillSpeedPXPerS &&
+		box.nearEdge(ea, s.EdgeMarginPX) && box.nearEdge(sb, s.EdgeMarginPX)
+}
+
+// departs reports whether b's first motion, from its first point to its
+// latest detection within win frames, points away from p: within about
+// 25 degrees of the direction from p to b's first point.
+func departs(p Point, b fragment, win int) bool {
+	first := b.first()
+	last := -1
+	for i := 1; i < len(b.points) && b.points[i].Frame-first.Frame <= win; i++ {
+		if b.points[i].Observed {
+			last = i
+		}
+	}
+	if last < 0 {
+		return false
+	}
+	vx, vy := b.points[last].XPX-first.XPX, b.points[last].YPX-first.YPX
+	dx, dy := first.XPX-p.XPX, first.YPX-p.YPX
+	n := math.Hypot(vx, vy) * math.Hypot(dx, dy)
+	return n > 0 && (vx*dx+vy*dy)/n >= 0.9
 }
 
 // speedBefore is the straight-line speed, px/s, between the earliest
@@ -162,9 +222,12 @@ func speedAfter(pts []Point, win int, fps float64) float64 {
 //	[ B   X ]    D = diag(gapDeathCost), B = diag(gapBirthCost)
 //	             X[j][i] = 0 where L[i][j] is allowed (transpose pattern)
 //
-// with +Inf elsewhere, solved with Assign. Chosen links chain fragments;
-// the frames between two joined fragments are filled by linear
-// interpolation, marked not observed. The matrix is split into the
+// with +Inf elsewhere, solved with Assign. Chosen links chain fragments.
+// The frames between two joined fragments are filled by linear
+// interpolation, marked not observed, unless the bee left the picture in
+// between (exitGap): then those frames get no points at all, since
+// nobody saw where the bee was, and a straight line would cut through
+// the picture. The matrix is split into the
 // connected components of the allowed links first, so the cost grows with
 // the size of the largest component rather than with all fragments.
 func closeGaps(frags []fragment, s Settings, box frameBox) []fragment {
@@ -177,6 +240,7 @@ func closeGaps(frags []fragment, s Settings, box frameBox) []fragment {
 		i, j, cut int
 		c         float64
 	}
+	exit := make([]bool, n) // the gap after frags[i] is an exit from the picture
 	var links []link
 	parent := make([]int, n)
 	for i := range parent {
@@ -253,6 +317,7 @@ func closeGaps(frags []fragment, s Settings, box frameBox) []fragment {
 			if j := rowToCol[i]; j >= 0 && j < m {
 				next[members[i]] = members[j]
 				cutAt[members[i]] = cuts[[2]int{i, j}]
+				exit[members[i]] = exitGap(frags[members[i]], cutAt[members[i]], frags[members[j]], s, box)
 				hasPrev[members[j]] = true
 			}
 		}
@@ -262,20 +327,22 @@ func closeGaps(frags []fragment, s Settings, box frameBox) []fragment {
 		if hasPrev[i] {
 			continue
 		}
-		f := fragment{ids: append([]int(nil), frags[i].ids...), points: append([]Point(nil), frags[i].points...), endSpeedPXPS: frags[i].endSpeedPXPS}
+		f := fragment{ids: append([]int(nil), frags[i].ids...), points: append([]Point(nil), frags[i].points...), endSpeedPXPS: frags[i].endSpeedPXPS, exited: frags[i].exited}
 		for prev, j := i, next[i]; j >= 0; prev, j = j, next[j] {
 			// Drop prev's tail after the cut (nothing without overlap).
 			f.points = f.points[:len(f.points)-(len(frags[prev].points)-1-cutAt[prev])]
-			a, b := f.last(), frags[j].first()
-			gap := make([]Point, b.Frame-a.Frame-1)
-			for k := range gap {
-				gap[k].Frame = a.Frame + 1 + k
+			if !exit[prev] {
+				a, b := f.last(), frags[j].first()
+				gap := make([]Point, b.Frame-a.Frame-1)
+				for k := range gap {
+					gap[k].Frame = a.Frame + 1 + k
+				}
+				fillLinear(gap, a, b)
+				f.points = append(f.points, gap...)
 			}
-			fillLinear(gap, a, b)
-			f.points = append(f.points, gap...)
 			f.points = append(f.points, frags[j].points...)
 			f.ids = append(f.ids, frags[j].ids...)
-			f.endSpeedPXPS = frags[j].endSpeedPXPS
+			f.endSpeedPXPS, f.exited = frags[j].endSpeedPXPS, frags[j].exited
 		}
 		out = append(out, f)
 	}

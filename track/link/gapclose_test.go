@@ -25,6 +25,9 @@ func TestCloseGaps(t *testing.T) {
 		name  string
 		frags []fragment
 		want  [][]int // provisional IDs of each joined track, by first frame
+		// exit is true if the joined gap is an exit from the picture,
+		// which gets no points; otherwise every frame has a point.
+		exit bool
 	}{
 		{
 			name: "chain across two short gaps",
@@ -59,12 +62,29 @@ func TestCloseGaps(t *testing.T) {
 				line(2, 90, 119, 636, 330, -5, 0), // re-enters 130 px lower 2 s later
 			},
 			want: [][]int{{1, 2}},
+			exit: true,
 		},
 		{
 			name: "long gap mid-picture nearby (occlusion): joined",
 			frags: []fragment{
 				line(1, 0, 29, 200, 200, 5, 0),  // ends at (345, 200)
 				line(2, 60, 89, 390, 210, 5, 0), // 46 px further, 1 s later
+			},
+			want: [][]int{{1, 2}},
+		},
+		{
+			name: "two still ends 60 px apart, 2 s: not joined (foliage)",
+			frags: []fragment{
+				line(1, 0, 29, 300, 300, 0, 0),
+				line(2, 90, 119, 360, 300, 0, 0),
+			},
+			want: [][]int{{1}, {2}},
+		},
+		{
+			name: "sat unseen 6 s, took off unseen just before: joined",
+			frags: []fragment{
+				line(1, 0, 29, 300, 300, 0, 0),
+				line(2, 210, 239, 315, 300, 10, 0), // 300 px/s, 15 px from the seat
 			},
 			want: [][]int{{1, 2}},
 		},
@@ -103,7 +123,19 @@ func TestCloseGaps(t *testing.T) {
 				if !equalInts(got[i].ids, tc.want[i]) {
 					t.Errorf("track %d: ids %v, want %v", i, got[i].ids, tc.want[i])
 				}
-				checkContiguous(t, got[i].points)
+				if !tc.exit {
+					checkContiguous(t, got[i].points)
+					continue
+				}
+				// No invented points while the bee was out of the picture.
+				for k, p := range got[i].points {
+					if !p.Observed || (k > 0 && p.Frame <= got[i].points[k-1].Frame) {
+						t.Errorf("point %d %+v: want only the detections, in frame order", k, p)
+					}
+				}
+				if n := len(got[i].points); n != 60 {
+					t.Errorf("%d points, want the 60 detections", n)
+				}
 			}
 		})
 	}
@@ -181,4 +213,45 @@ func equalInts(a, b []int) bool {
 		}
 	}
 	return true
+}
+
+// TestSplitLongCoasts: a track is cut where it coasted (missed its target)
+// for more than maxRun frames in a row, not where it was merged with
+// another track's blob, and the coasted points are left out.
+func TestSplitLongCoasts(t *testing.T) {
+	mk := func(kinds string) ([]Point, []bool) {
+		// 'o' detection, 'c' coasted, 'm' merged
+		var pts []Point
+		var co []bool
+		for i, k := range kinds {
+			pts = append(pts, Point{Frame: i, Observed: k == 'o'})
+			co = append(co, k == 'c')
+		}
+		return pts, co
+	}
+	cases := []struct {
+		name  string
+		kinds string
+		want  [][2]int // first and last frame of each piece
+	}{
+		{"no gap", "oooo", [][2]int{{0, 3}}},
+		{"short coast kept", "oocccoo", [][2]int{{0, 6}}},
+		{"long coast split", "oocccccoo", [][2]int{{0, 1}, {7, 8}}},
+		{"long merge kept", "oommmmmoo", [][2]int{{0, 8}}},
+		{"two long coasts", "occcccoccccco", [][2]int{{0, 0}, {6, 6}, {12, 12}}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			pts, co := mk(tc.kinds)
+			got := splitLongCoasts(pts, co, 4)
+			if len(got) != len(tc.want) {
+				t.Fatalf("%d pieces, want %d", len(got), len(tc.want))
+			}
+			for i, p := range got {
+				if p[0].Frame != tc.want[i][0] || p[len(p)-1].Frame != tc.want[i][1] {
+					t.Errorf("piece %d: frames %d-%d, want %d-%d", i, p[0].Frame, p[len(p)-1].Frame, tc.want[i][0], tc.want[i][1])
+				}
+			}
+		})
+	}
 }

@@ -76,10 +76,19 @@ type Linker struct {
 
 // ltrack is a live or ended track.
 type ltrack struct {
-	id     int // provisional ID, 0 while tentative
-	kf     *Kalman
-	points []Point // one per frame from the first detection
-	hits   int     // detections
+	id int // provisional ID, 0 while tentative
+	kf *Kalman
+	// imm is the two-model filter (see imm) that predicts and updates
+	// while the track is detected frame after frame (immLive); kf then
+	// holds its combined estimate. While the track coasts or is merged,
+	// kf alone runs and imm restarts from kf at the next detection.
+	imm     *imm
+	immLive bool
+	points  []Point // one per frame from the first detection
+	// coasted[i] is true if points[i] was appended by miss (no
+	// detection; not a merged frame).
+	coasted []bool
+	hits    int // detections
 	// misses counts frames since the latest reliable detection: every
 	// detection of a tentative or found track, or the detection that
 	// re-confirms a lost track (see Settings.ReconfirmAfterMisses).
@@ -101,6 +110,7 @@ type ltrack struct {
 	inMerge     bool
 	mergeFrames int  // consecutive merged frames
 	duplicate   bool // to be ended: follows the same bee as another track
+	exited      bool // ended because its prediction left BoundsPX
 }
 
 // NewLinker returns a Linker with settings s; zero fields of s take their
@@ -160,17 +170,32 @@ func (l *Linker) Step(frame int, dets []Detection) []Assignment {
 	l.frame = frame
 
 	detTrack := make([]*ltrack, len(dets))
-	var conf, tent []*ltrack
+	var conf, found, lost, tent []*ltrack
 	for _, t := range l.live {
-		if t.id > 0 {
-			conf = append(conf, t)
-		} else {
+		switch {
+		case t.id == 0:
 			tent = append(tent, t)
+		case l.lost(t):
+			conf = append(conf, t)
+			lost = append(lost, t)
+		default:
+			conf = append(conf, t)
+			found = append(found, t)
 		}
 	}
-	// Confirmed tracks choose first, tentative tracks get what is left.
+	// Confirmed tracks detected lately choose first, then lost confirmed
+	// tracks, then tentative tracks get what is left (a matching cascade:
+	// Wojke et al. 2017). A lost track's prediction is stale, and a still
+	// one is held for up to MaxCoastStillS: in a joint assignment it
+	// could take the detection of a bee whose own track is still
+	// followed (a fragment on swaying grass catching a bee that arrives
+	// to hover beside it).
 	matched := map[*ltrack]bool{}
-	for gi, group := range [][]*ltrack{conf, tent} {
+	for gi, group := range [][]*ltrack{found, lost, tent} {
+		if gi == 2 {
+			// All confirmed tracks have chosen.
+			l.findMerges(conf, dets, detTrack, matched)
+		}
 		free := make([]int, 0, len(dets))
 		for j := range dets {
 			if detTrack[j] == nil {
@@ -192,9 +217,6 @@ func (l *Linker) Step(frame int, dets []Detection) []Assignment {
 				detTrack[free[jj]] = group[i]
 				matched[group[i]] = true
 			}
-		}
-		if gi == 0 {
-			l.findMerges(conf, dets, detTrack, matched)
 		}
 	}
 	var mergedOut []Assignment
@@ -233,6 +255,9 @@ func (l *Linker) Step(frame int, dets []Detection) []Assignment {
 		if t.id == 0 && t.hits >= l.s.MinHitsToConfirm {
 			l.nextID++
 			t.id = l.nextID
+			if l.useIMM() {
+				t.imm, t.immLive = newIMM(t.kf, [numModels]float64{0.5, 0.5}), true
+			}
 		}
 		if t.id > 0 {
 			out = append(out, Assignment{DetIndex: j, TrackID: t.id, Pending: t.misses > 0})
@@ -297,9 +322,11 @@ func (l *Linker) merged(t *ltrack, frame int) {
 		t.mergeFrames = 0
 	}
 	t.inMerge = true
+	t.immLive = false
 	t.mergeFrames++
 	x, y, _, _ := t.kf.State()
 	t.points = append(t.points, Point{Frame: frame, XPX: x, YPX: y})
+	t.coasted = append(t.coasted, false)
 }
 
 // dropDuplicates ends all but the strongest track of every merged group
@@ -377,11 +404,22 @@ func (l *Linker) lineFit(t *ltrack, frame int) (x, y, vx, vy float64, ok bool) {
 // the negative log-likelihood of d under the prediction up to a constant
 // (Blackman & Popoli 1999, Sec. 6.3), so that a confident track wins a
 // detection over a long-coasting one at equal d^2.
+//
+// While the track's two-model filter runs (see imm), the cost is the
+// mixture's -2 ln sum_j c_j Lambda_j instead, and d^2 in the gate is the
+// smallest over the models: the detection must fit at least one of them.
 func (l *Linker) assocCost(t *ltrack, d Detection) float64 {
 	px, py, _, _ := t.kf.State()
 	dist := math.Hypot(d.XPX-px, d.YPX-py)
 	if dist > l.s.MaxGateRadiusPX {
 		return math.Inf(1)
+	}
+	if t.immLive {
+		c, d2 := t.imm.cost(d.XPX, d.YPX)
+		if d2 > l.gateD2 && dist > l.s.MinGateRadiusPX {
+			return math.Inf(1)
+		}
+		return c
 	}
 	d2 := t.kf.Mahalanobis2(d.XPX, d.YPX)
 	if d2 > l.gateD2 && dist > l.s.MinGateRadiusPX {
@@ -390,20 +428,29 @@ func (l *Linker) assocCost(t *ltrack, d Detection) float64 {
 	return d2 + t.kf.LogDetS()
 }
 
+// useIMM reports whether tracks run the two-model filter.
+func (l *Linker) useIMM() bool { return l.s.HoverSigmaPX > 0 }
+
 // predictAll advances every live track by one frame. A track detected in
-// the latest frame is predicted with the constant-velocity model; a
+// the latest frame is predicted with its IMM filter (imm) or, without
+// one, with the constant-velocity model; a
 // coasting still track is held at its anchor (Kalman.Hold); any other
 // coasting track is predicted with its velocity decaying with half-life
 // CoastVelHalfLifeS.
 func (l *Linker) predictAll() {
 	damp := math.Pow(0.5, l.dtS/l.s.CoastVelHalfLifeS)
 	for _, t := range l.live {
-		l.predict(t.kf, t, damp)
+		l.predict(t.kf, t.imm, t, damp)
 	}
 }
 
-func (l *Linker) predict(k *Kalman, t *ltrack, damp float64) {
+// predict advances k (t's filter or a copy) and m (t's two-model filter
+// or a copy) by one frame.
+func (l *Linker) predict(k *Kalman, m *imm, t *ltrack, damp float64) {
 	switch {
+	case t.sinceHit == 0 && t.immLive:
+		m.predict(l.dtS, math.Min(0.5, l.dtS/l.s.ModeSwitchS), l.s.HoverSigmaPX, l.s.StillSpeedPXPerS, l.s.TakeoffSpeedPXPerS)
+		m.combined(k, m.c)
 	case t.sinceHit == 0:
 		k.Predict(l.dtS)
 	case l.still(t):
@@ -426,7 +473,16 @@ func (l *Linker) lost(t *ltrack) bool {
 // hit updates t with detection d of frame.
 func (l *Linker) hit(t *ltrack, frame int, d Detection) {
 	wasLost := t.id > 0 && l.lost(t)
-	t.kf.Update(d.XPX, d.YPX)
+	switch {
+	case t.immLive:
+		t.imm.update(d.XPX, d.YPX)
+		t.imm.combined(t.kf, t.imm.mu)
+	case t.imm != nil:
+		t.kf.Update(d.XPX, d.YPX)
+		t.imm, t.immLive = newIMM(t.kf, t.imm.mu), true
+	default:
+		t.kf.Update(d.XPX, d.YPX)
+	}
 	l.record(t, frame, d)
 	if !wasLost {
 		l.reliable(t)
@@ -446,6 +502,7 @@ func (l *Linker) hit(t *ltrack, frame int, d Detection) {
 // record appends detection d as an observed point.
 func (l *Linker) record(t *ltrack, frame int, d Detection) {
 	t.points = append(t.points, Point{Frame: frame, XPX: d.XPX, YPX: d.YPX, Observed: true, AreaPX: d.AreaPX})
+	t.coasted = append(t.coasted, false)
 	t.hits++
 	t.sinceHit = 0
 	t.inMerge = false
@@ -488,9 +545,11 @@ func (l *Linker) recentSpeed(t *ltrack) float64 {
 func (l *Linker) miss(t *ltrack, frame int) {
 	x, y, _, _ := t.kf.State()
 	t.points = append(t.points, Point{Frame: frame, XPX: x, YPX: y})
+	t.coasted = append(t.coasted, true)
 	t.misses++
 	t.sinceHit++
 	t.inMerge = false
+	t.immLive = false
 	t.pendingGap++
 }
 
@@ -538,6 +597,7 @@ func (l *Linker) expired(t *ltrack) bool {
 		x, y, _, _ := t.kf.State()
 		b := l.s.BoundsPX
 		if x < float64(b.Min.X) || y < float64(b.Min.Y) || x >= float64(b.Max.X) || y >= float64(b.Max.Y) {
+			t.exited = true
 			return true
 		}
 	}
@@ -548,6 +608,7 @@ func (l *Linker) expired(t *ltrack) bool {
 // its latest reliable detection.
 func (l *Linker) end(t *ltrack) {
 	t.points = t.points[:t.lastReliable+1]
+	t.coasted = t.coasted[:t.lastReliable+1]
 	t.misses = 0
 	t.kf = nil
 	l.ended = append(l.ended, t)
@@ -568,7 +629,11 @@ func (l *Linker) Predicted() []Prediction {
 			continue
 		}
 		k := t.kf.clone()
-		l.predict(k, t, damp)
+		var m *imm
+		if t.imm != nil {
+			m = t.imm.clone()
+		}
+		l.predict(k, m, t, damp)
 		x, y, _, _ := k.State()
 		s := k.S()
 		r := math.Min(math.Max(gateRadiusPX(s, l.gateD2), l.s.MinGateRadiusPX), l.s.MaxGateRadiusPX)
@@ -583,7 +648,8 @@ func (l *Linker) Predicted() []Prediction {
 
 // Finish ends all live tracks, drops tracks with fewer than
 // MinObservedPoints detections, closes gaps between the others, drops
-// stationary tracks in mid-clip (see StationaryRadiusPX) and returns the
+// stationary tracks in mid-clip (see StationaryRadiusPX) and tracks
+// detected in less than MinDetectedFrac of their points, and returns the
 // resulting tracks with
 // IDs 1..n in order of their first frame. Runs of coasted points inside a
 // track are replaced by linear interpolation between the detections
@@ -607,8 +673,16 @@ func (l *Linker) Finish() []Track {
 				n++
 			}
 		}
-		if n >= l.s.MinObservedPoints {
-			frags = append(frags, fragment{ids: []int{t.id}, points: interpolateCoasted(t.points), endSpeedPXPS: t.kfSpeedPXPS})
+		if n < l.s.MinObservedPoints {
+			continue
+		}
+		pieces := splitLongCoasts(t.points, t.coasted, l.s.frames(l.s.MaxCoastMovingS))
+		for k, pts := range pieces {
+			f := fragment{ids: []int{t.id}, points: interpolateCoasted(pts)}
+			if k == len(pieces)-1 {
+				f.endSpeedPXPS, f.exited = t.kfSpeedPXPS, t.exited
+			}
+			frags = append(frags, f)
 		}
 	}
 	l.ended = nil
@@ -620,8 +694,14 @@ func (l *Linker) Finish() []Track {
 	edge := l.s.frames(1)
 	keep := joined[:0]
 	for _, f := range joined {
+		if observed(f.points) < l.s.MinObservedPoints {
+			continue // a short piece of a cut track that nothing joined
+		}
 		midClip := f.first().Frame > l.firstFrame+edge && f.last().Frame < l.frame-edge
 		if midClip && stationary(f.points, l.s.StationaryRadiusPX) {
+			continue
+		}
+		if detectedFrac(f.points) < l.s.MinDetectedFrac {
 			continue
 		}
 		keep = append(keep, f)
@@ -645,7 +725,8 @@ func (l *Linker) Finish() []Track {
 
 // FinalID returns the ID in Finish's result of the track that had
 // provisional ID id, and false if that track was dropped or Finish has not
-// run.
+// run. A track that Finish cut at a long coast (see doc.go) maps to the
+// result track that starts last among those holding its pieces.
 func (l *Linker) FinalID(id int) (int, bool) {
 	f, ok := l.finalID[id]
 	return f, ok
@@ -675,6 +756,50 @@ func stationary(pts []Point, radiusPX float64) bool {
 		}
 	}
 	return true
+}
+
+// splitLongCoasts splits a track's points at every gap between two
+// detections that holds more than maxRun coasted points (coasted[i]:
+// points[i] was a miss, not a merged frame), leaving the gaps out: what
+// the track picked up after coasting that long may be another object, so
+// the pieces are left to gap closing, which weighs all ends and starts
+// at once (Jaqaman et al. 2008: cautious frame-to-frame linking, global
+// gap closing).
+func splitLongCoasts(pts []Point, coasted []bool, maxRun int) [][]Point {
+	var out [][]Point
+	start, lastObs, run := 0, -1, 0
+	for i, p := range pts {
+		if !p.Observed {
+			if coasted[i] {
+				run++
+			}
+			continue
+		}
+		r := run
+		run = 0
+		if lastObs >= 0 && r > maxRun {
+			out = append(out, pts[start:lastObs+1])
+			start = i
+		}
+		lastObs = i
+	}
+	return append(out, pts[start:lastObs+1])
+}
+
+// observed is the number of detections among pts.
+func observed(pts []Point) int {
+	n := 0
+	for _, p := range pts {
+		if p.Observed {
+			n++
+		}
+	}
+	return n
+}
+
+// detectedFrac is the fraction of pts that are detections.
+func detectedFrac(pts []Point) float64 {
+	return float64(observed(pts)) / float64(len(pts))
 }
 
 // median returns the median of v, reordering v.

@@ -148,10 +148,43 @@ type Settings struct {
 	// more exits and re-entries but also join different bees leaving and
 	// arriving at the border. Gaps longer than
 	// MaxCoastMovingS in mid-picture are bridged only over at most
-	// MaxGateRadiusPX. A gap of up to MaxCoastStillS is bridged if both
-	// ends are within MinGateRadiusPX (a bee that sat unseen where it
-	// vanished).
+	// MaxGateRadiusPX and from an end that was flying. A gap of up to
+	// MaxCoastStillS is bridged if both ends are within MinGateRadiusPX
+	// (a bee that sat unseen where it vanished), or farther if the later
+	// fragment flies away from the seat (it took off unseen; see
+	// gapLinkCost).
 	MaxGapS float64 `toml:"max_gap_s" json:"max_gap_s"`
+
+	// HoverSigmaPX is the standard deviation, per coordinate and frame, of
+	// a hovering or landed bee's movement in the hover model of the
+	// two-model (IMM) filter, px (> 0). Default 0.08 BL. A negative value
+	// turns the hover model off: every track then runs the
+	// constant-velocity filter alone.
+	HoverSigmaPX float64 `toml:"hover_sigma_px" json:"hover_sigma_px"`
+
+	// ModeSwitchS is the mean time a bee keeps to one motion model
+	// (flying or hovering) in the IMM filter, s (> 0): the probability of
+	// a switch between two frames is 1/(FPS ModeSwitchS), at most 0.5.
+	// Default 1 s.
+	ModeSwitchS float64 `toml:"mode_switch_s" json:"mode_switch_s"`
+
+	// TakeoffSpeedPXPerS is the standard deviation of each velocity
+	// component of a bee that changes from hovering (or sitting) to
+	// flying in the IMM filter, px/s (> 0): the hover model has no
+	// velocity, and a bee taking off reaches flight speed within a few
+	// frames. Default 10 BL/s. Larger values let a departing bee's
+	// detection reach further from the hover point, but also let a
+	// hovering track that misses its bee reach for clutter farther away.
+	TakeoffSpeedPXPerS float64 `toml:"takeoff_speed_px_per_s" json:"takeoff_speed_px_per_s"`
+
+	// MinDetectedFrac: Finish drops a track (after gap closing) whose
+	// detections make up less than this fraction of its points: the
+	// M-of-N deletion rule (Blackman & Popoli 1999, Sec. 6.2) applied to
+	// the whole track. A chain of coasted and gap-filled stretches
+	// between a few detections is what swaying grass makes; a bee's
+	// track is mostly detected. In [0, 1); default 0.4; a negative value
+	// turns the rule off.
+	MinDetectedFrac float64 `toml:"min_detected_frac" json:"min_detected_frac"`
 
 	// MinObservedPoints: a track fragment with fewer detections than this
 	// is dropped as noise before gap closing, >= 1. Default
@@ -253,6 +286,18 @@ func (s Settings) withDefaults() Settings {
 	if s.MaxGapS == 0 {
 		s.MaxGapS = 5
 	}
+	if s.MinDetectedFrac == 0 {
+		s.MinDetectedFrac = 0.4
+	}
+	if s.HoverSigmaPX == 0 {
+		s.HoverSigmaPX = 0.08 * bl("HoverSigmaPX")
+	}
+	if s.TakeoffSpeedPXPerS == 0 {
+		s.TakeoffSpeedPXPerS = 10 * bl("TakeoffSpeedPXPerS")
+	}
+	if s.ModeSwitchS == 0 {
+		s.ModeSwitchS = 1
+	}
 	if s.MinObservedPoints == 0 {
 		s.MinObservedPoints = max(s.MinHitsToConfirm, int(math.Ceil(0.2*s.FPS)))
 	}
@@ -280,6 +325,8 @@ func (s Settings) validate() {
 	pos("MaxGapS", s.MaxGapS)
 	pos("MaxMergeS", s.MaxMergeS)
 	pos("EdgeMarginPX", s.EdgeMarginPX)
+	pos("ModeSwitchS", s.ModeSwitchS)
+	pos("TakeoffSpeedPXPerS", s.TakeoffSpeedPXPerS)
 	switch {
 	case !(s.GateProbability > 0 && s.GateProbability < 1):
 		panic(fmt.Sprintf("link: GateProbability %v not in (0, 1)", s.GateProbability))
@@ -287,6 +334,8 @@ func (s Settings) validate() {
 		panic(fmt.Sprintf("link: MinGateRadiusPX %v must be in [0, MaxGateRadiusPX %v)", s.MinGateRadiusPX, s.MaxGateRadiusPX))
 	case s.MinHitsToConfirm < 1:
 		panic(fmt.Sprintf("link: MinHitsToConfirm %d must be >= 1", s.MinHitsToConfirm))
+	case !(s.MinDetectedFrac < 1):
+		panic(fmt.Sprintf("link: MinDetectedFrac %v must be < 1", s.MinDetectedFrac))
 	case s.MinObservedPoints < 1:
 		panic(fmt.Sprintf("link: MinObservedPoints %d must be >= 1", s.MinObservedPoints))
 	case s.Model != DiscreteWNA && s.Model != ContinuousWNA:

@@ -27,8 +27,11 @@ type Point struct {
 }
 
 // Track is one bee's path through a clip in frame order, one point per
-// frame from its first to its last frame (gaps closed by linking are filled
-// by interpolation and marked not observed).
+// frame from its first to its last frame, except while the bee was out of
+// the picture: gap closing joins an exit at the frame's border to the
+// re-entry but gives the frames in between no points (the frame numbers
+// jump). Other gaps closed by linking (occlusion, a missed detection) are
+// filled by linear interpolation and marked not observed.
 type Track struct {
 	ID     int
 	Points []Point
