@@ -133,10 +133,11 @@ func logScores(t *testing.T, what string, sc mot.Scores) {
 // leaf it flies behind. Targets of issue 3: MOTA >= 0.98, position RMSE
 // <= 1.5 px, no identity switch, the track kept through the long landing.
 //
-// MOTA and RMSE are taken on the observed points: while the bee is out of
-// the picture, gap closing (package link) fills the gap with a straight
-// line through the frame, which is not a position anyone saw; those
-// points are scored separately and logged.
+// MOTA and RMSE are taken on the observed points (positions the tracker
+// detected); all points, including those filled in by coasting behind
+// the leaf, are scored separately and logged. While the bee is out of the
+// picture its track has no points (package link keeps the identity
+// without inventing positions).
 func TestAccuracySingleBee(t *testing.T) {
 	t.Parallel()
 	path, truth := renderScene(t, "single", testScenes["single"])

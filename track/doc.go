@@ -41,7 +41,8 @@
 // track's predicted and matched position not at all, so a bee that sits
 // on a flower for minutes is never absorbed. A track is protected once it
 // has moved ProtectAfterBL body lengths from where it started, when it
-// starts within a body length of the frame border (flying in), or when it
+// starts within a body length of the frame border or within reach of a
+// detection there in the last second (flying in), or when it
 // takes over the detections of a protected track (the linker sometimes
 // starts a new track on a bee that brakes to land): a bee arrives flying,
 // while a false track at the edge of a swaying flower stays put and must
@@ -51,6 +52,13 @@
 // so the test is signed, d = mu - g x > ThresholdSigma sqrt(var): only
 // pixels darker than the background count. This rejects the bright ghost
 // a bee leaves where it sat in the first frame, glints and sunlit petals.
+// Where the ground is itself about as dark as a bee (a dark flower
+// centre), darkness cannot show the bee; there, within a body length of
+// where a confirmed track is expected, a cell also counts when its colour
+// differs from its learned colour after allowing for a change of
+// brightness (the chromaticity distortion of Horprasert et al. 1999, over
+// MinChromaGrey; see chroma in segment.go). Shadows and light changes
+// leave it unchanged, a bee's coloured bands do not.
 // g is a global gain per frame, mean(mu)/mean(x) over the previous frame's
 // background pixels, which removes flicker and illumination drift before
 // differencing.
@@ -131,6 +139,9 @@
 //     moving objects, ghosts, and shadows in video streams. IEEE
 //     Transactions on Pattern Analysis and Machine Intelligence 25(10),
 //     1337-1342.
+//   - Horprasert, T., Harwood, D. & Davis, L. S. (1999). A statistical
+//     approach for real-time robust background subtraction and shadow
+//     detection. Proc. IEEE ICCV'99 FRAME-RATE Workshop.
 //   - Lloyd, S. P. (1982). Least squares quantization in PCM. IEEE
 //     Transactions on Information Theory 28(2), 129-137.
 //   - Kuglin, C. D. & Hines, D. C. (1975). The phase correlation image

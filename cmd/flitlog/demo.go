@@ -25,10 +25,9 @@ usage: flitlog demo [--out DIR] [--overlay]
 
 Renders the built-in demo scene (an invented place: bed 4 of the Quince Row
 allotments, where two bumblebees work white clover and borage), scores it
-with exactly the
-pipeline of 'flitlog run', and prints a scorecard that compares what the
-pipeline wrote with the scene's ground truth: tracking accuracy, landings,
-handling times and inspections.
+with exactly the pipeline of 'flitlog run', and prints a scorecard that
+compares what the pipeline wrote with the scene's ground truth: tracking
+accuracy, landings, handling times and inspections.
 
 Writes to DIR (default ./flitlog-demo):
   clips/<scene>.mp4             the rendered clip (H.264)

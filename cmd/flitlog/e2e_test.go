@@ -73,16 +73,14 @@ func readSummary(t testing.TB, path string) map[string]any {
 // checks the written tables against the scene's truth, with the targets
 // of the tracking and visit issues.
 func TestRunEndToEndSingleBee(t *testing.T) {
-	// The single-bee scene of track/accuracy_test.go ("t_single": the
-	// single preset cut to 48 s, still with a landing of 30 s or more, an
-	// inspection, an exit and re-entry); the same config shares its
-	// rendered clip through the cache.
+	// The single-bee scene of track/accuracy_test.go (the 75 s single
+	// preset: a landing of 30 s or more, partly on a dark flower centre,
+	// inspections, a revisit, an exit and re-entry); the same config
+	// shares its rendered clip through the cache.
 	cfg, err := meadow.Preset("single")
 	if err != nil {
 		t.Fatal(err)
 	}
-	cfg.Name, cfg.DurationS = "t_single", 48
-	cfg.MinInspections, cfg.MinRevisits, cfg.MinExits = 1, 0, 1
 	clip, truth, err := meadow.CachedClip(cfg, meadow.TestCacheDir(), ".mp4")
 	if err != nil {
 		t.Fatal(err)
