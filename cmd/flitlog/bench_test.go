@@ -179,7 +179,9 @@ const batchClips = 8
 // each) with --workers 1 and --workers 2, alternating the order between
 // rounds. Metrics: w1_s and w2_s (median wall time, s), speedup_x (median
 // of the per-round ratios w1/w2), cpu_s_w1 and cpu_s_w2 (median CPU time
-// of the batch, s), free_cores, peak_rss_MB_w1 and peak_rss_MB_w2.
+// of the batch, s), free_cores, busy_cores_w1 (U = cpu_s_w1 / w1_s, the
+// cores one worker keeps busy), ceiling_x (nproc/U, the most 2 workers can
+// gain on 2 cores), peak_rss_MB_w1 and peak_rss_MB_w2.
 func BenchmarkBatch(b *testing.B) {
 	b.Run(fmt.Sprintf("%dx720p30_12s", batchClips), func(b *testing.B) {
 		dir := b.TempDir()
@@ -250,6 +252,8 @@ func BenchmarkBatch(b *testing.B) {
 		reportMetric(b, row.CPU1S, "cpu_s_w1")
 		reportMetric(b, row.CPU2S, "cpu_s_w2")
 		reportMetric(b, row.FreeCores, "free_cores")
+		reportMetric(b, row.BusyCoresW1(), "busy_cores_w1")
+		reportMetric(b, row.Ceiling(), "ceiling_x")
 		reportMetric(b, row.PeakRSSMB1, "peak_rss_MB_w1")
 		reportMetric(b, row.PeakRSSMB2, "peak_rss_MB_w2")
 		report.Lock()

@@ -604,6 +604,16 @@ type batchRow struct {
 	PeakRSSMB2 float64
 }
 
+// BusyCoresW1 is U, the cores one worker keeps busy: CPU time over wall
+// time of the batch with --workers 1 (medians).
+func (r batchRow) BusyCoresW1() float64 { return r.CPU1S / r.Workers1S }
+
+// Ceiling is the largest speed-up of --workers N = nproc over --workers 1
+// when one worker already keeps U cores busy: nproc/U (Amdahl's bound with
+// the machine's cores as the only resource; it ignores memory bandwidth and
+// the serial end of a batch, so the true limit is lower).
+func (r batchRow) Ceiling() float64 { return float64(runtime.NumCPU()) / r.BusyCoresW1() }
+
 // noteFloor records the measurement floor of subprocess runs.
 func noteFloor(rs ...procRun) {
 	report.Lock()
@@ -710,7 +720,15 @@ each round (median): 2.00 = both cores were free.
 		}
 		tw.Flush()
 		fmt.Fprintf(w, "wall and CPU time: median of %d rounds (alternating order); speed-up: median of per-round ratios;\n", report.batches[0].Rounds)
-		fmt.Fprintf(w, "free cores: as above, before each run (median); 2 workers cannot beat 1 by much more than that.\n\n")
+		fmt.Fprintf(w, "free cores: as above, before each run (median); 2 workers cannot beat 1 by much more than that.\n")
+		for _, r := range report.batches {
+			u := r.BusyCoresW1()
+			fmt.Fprintf(w, "ceiling: one worker keeps U = CPU s / wall s = %.1f / %.1f = %.2f cores busy (FFmpeg decodes H.264\n", r.CPU1S, r.Workers1S, u)
+			fmt.Fprintf(w, "on several threads), so %d workers on %d cores can be at most nproc/U = %d/%.2f = %.2fx\n",
+				runtime.NumCPU(), runtime.NumCPU(), runtime.NumCPU(), u, r.Ceiling())
+			fmt.Fprintf(w, "faster than 1 (with f free cores: f/U); measured %.2fx = %.0f %% of that ceiling.\n", r.Speedup, 100*r.Speedup/r.Ceiling())
+		}
+		fmt.Fprintln(w)
 	}
 
 	// The targets of the throughput issue.
@@ -737,7 +755,7 @@ each round (median): 2.00 = both cores were free.
 		if r.FreeCores < 1.8 && r.Speedup < 1.6 {
 			note = fmt.Sprintf(" (only %.2f free cores during the runs: re-measure on a quiet machine)", r.FreeCores)
 		}
-		fmt.Fprintf(w, "  batch of %d, 2 workers >= 1.6x faster than 1: %.2fx  %s%s\n", r.Clips, r.Speedup, verdict(r.Speedup >= 1.6), note)
+		fmt.Fprintf(w, "  batch of %d, 2 workers >= 1.6x faster than 1: %.2fx  %s%s; ceiling nproc/U = %.2fx\n", r.Clips, r.Speedup, verdict(r.Speedup >= 1.6), note, r.Ceiling())
 	}
 	fmt.Fprintf(w, "  peak RSS <= 400 MB (largest single-clip run): %.0f MB  %s\n", maxRSS, verdict(maxRSS <= 400))
 	if len(report.lengths) < 2 {
