@@ -94,6 +94,7 @@ type segmenter struct {
 	disturbed, resets int
 
 	greyFull       gocv.Mat // grey frame, full size (8U)
+	greyHalf       gocv.Mat // greyFull halved (scratch of areaDownscale)
 	grey           gocv.Mat // grey working image (8U)
 	x, xa          gocv.Mat // working image as float, and the shake-aligned copy (32F)
 	mu, vr         gocv.Mat // background mean and variance (32F)
@@ -140,7 +141,7 @@ func newSegmenter(p segParams, frameW, frameH int, roi gocv.Mat) *segmenter {
 		crop: image.Rect(0, 0, p.workW*k, p.workH*k),
 		gain: 1,
 	}
-	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.d, &s.d2, &s.thr2, &s.anyFg, &s.darkFg, &s.fg, &s.frameCopy, &s.det, &s.tmp, &s.lmask, &s.labels, &s.stats, &s.cents, &s.small, &s.muBGR, &s.ref, &s.pcTmp, &s.noWindow, &s.unstable, &s.actTmp} {
+	for _, m := range []*gocv.Mat{&s.greyFull, &s.greyHalf, &s.grey, &s.x, &s.xa, &s.d, &s.d2, &s.thr2, &s.anyFg, &s.darkFg, &s.fg, &s.frameCopy, &s.det, &s.tmp, &s.lmask, &s.labels, &s.stats, &s.cents, &s.small, &s.muBGR, &s.ref, &s.pcTmp, &s.noWindow, &s.unstable, &s.actTmp} {
 		*m = gocv.NewMat()
 	}
 	s.chromaFg = gocv.NewMatWithSizeFromScalar(gocv.NewScalar(0, 0, 0, 0), p.workH, p.workW, gocv.MatTypeCV8U)
@@ -178,7 +179,7 @@ func newSegmenter(p segParams, frameW, frameH int, roi gocv.Mat) *segmenter {
 }
 
 func (s *segmenter) close() {
-	for _, m := range []*gocv.Mat{&s.greyFull, &s.grey, &s.x, &s.xa, &s.mu, &s.vr, &s.d, &s.d2, &s.thr2, &s.zero, &s.anyFg, &s.darkFg, &s.chromaFg, &s.fg, &s.frameCopy, &s.det, &s.tmp, &s.lmask, &s.protect, &s.notDark, &s.near, &s.roi, &s.labels, &s.stats, &s.cents, &s.kernel, &s.hann, &s.warpM, &s.small, &s.muBGR, &s.ref, &s.pcTmp, &s.noWindow, &s.act, &s.unstable, &s.actTmp} {
+	for _, m := range []*gocv.Mat{&s.greyFull, &s.greyHalf, &s.grey, &s.x, &s.xa, &s.mu, &s.vr, &s.d, &s.d2, &s.thr2, &s.zero, &s.anyFg, &s.darkFg, &s.chromaFg, &s.fg, &s.frameCopy, &s.det, &s.tmp, &s.lmask, &s.protect, &s.notDark, &s.near, &s.roi, &s.labels, &s.stats, &s.cents, &s.kernel, &s.hann, &s.warpM, &s.small, &s.muBGR, &s.ref, &s.pcTmp, &s.noWindow, &s.act, &s.unstable, &s.actTmp} {
 		m.Close()
 	}
 }
@@ -228,10 +229,10 @@ func (s *segmenter) detect(frame gocv.Mat, index int, tS float64, zones, seeds [
 	s.bgr, _ = frame.DataPtrUint8()
 	gocv.CvtColor(frame, &s.greyFull, gocv.ColorBGRToGray)
 	if s.crop.Dx() == s.frameW && s.crop.Dy() == s.frameH {
-		gocv.Resize(s.greyFull, &s.grey, image.Pt(p.workW, p.workH), 0, 0, gocv.InterpolationArea)
+		areaDownscale(s.greyFull, &s.grey, &s.greyHalf, image.Pt(p.workW, p.workH))
 	} else {
 		r := s.greyFull.Region(s.crop)
-		gocv.Resize(r, &s.grey, image.Pt(p.workW, p.workH), 0, 0, gocv.InterpolationArea)
+		areaDownscale(r, &s.grey, &s.greyHalf, image.Pt(p.workW, p.workH))
 		r.Close()
 	}
 	s.grey.ConvertTo(&s.x, gocv.MatTypeCV32F)
@@ -926,6 +927,15 @@ func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) []blob {
 		b := float64(img[iv1*W+iu])*(1-fu) + float64(img[iv1*W+iu1])*fu
 		return a*(1-fv) + b*fv
 	}
+	// lowest returns the darkest of the four working cells bilinear
+	// interpolation at (u, v) draws on.
+	lowest := func(img []float32, u, v float64) float64 {
+		u = math.Min(math.Max(u, 0), float64(W-1))
+		v = math.Min(math.Max(v, 0), float64(H-1))
+		iu, iv := int(u), int(v)
+		iu1, iv1 := min(iu+1, W-1), min(iv+1, H-1)
+		return float64(min(img[iv*W+iu], img[iv*W+iu1], img[iv1*W+iu], img[iv1*W+iu1]))
+	}
 	g := s.gain
 	rho := p.shadowRatio
 	s.pix = s.pix[:0]
@@ -945,6 +955,9 @@ func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) []blob {
 			if fg || rho*b > I || blind {
 				q := pixel{x: int32(x), y: int32(y), b: float32(b), i: float32(I), fg: fg, blind: blind}
 				if blind {
+					// The ground under a pixel may be as dark as the
+					// darkest cell b is interpolated from (see weigh).
+					q.b = float32(math.Min(b, lowest(c.mu, u, v)))
 					if cd, tc, ok := s.chromaAt(x, y, u, v); ok && cd > tc {
 						q.cw = float32(math.Min(1, (cd-tc)/tc))
 						q.fg = true
@@ -977,8 +990,9 @@ func (s *segmenter) refine(c *refineCtx, id int32, box image.Rectangle) []blob {
 	return s.split(in)
 }
 
-// pixel is one pixel of a blob at full size: background b and brightness
-// I (grey levels), weight w (see weigh), whether it is foreground, whether
+// pixel is one pixel of a blob at full size: background b (on blind
+// ground the darkest it may be, see weigh) and brightness I (grey
+// levels), weight w (see weigh), whether it is foreground, whether
 // it lies on blind ground (see chroma) and, there, its colour weight cw
 // (see weigh).
 type pixel struct {
@@ -1019,6 +1033,18 @@ func (s *segmenter) anyBlind() bool {
 // body too: w = max(w, cw), cw = clamp((CD - t_c) / t_c, 0, 1). Elsewhere
 // colour does not enter the weights, so that wings and pale bands over
 // bright ground do not move the centroid.
+//
+// The background b of a full-size pixel is interpolated from the working
+// scale, so on the dark side of a sharp edge (the rim of a dark flower
+// centre against bright petals) it is brighter than the ground really
+// is, and there a shadow passes I < rho b and counts as body. A settling
+// bee's shadow, sliding under it across the rim as it comes down, pulled
+// the centroid toward the shadow by about 2 px over half a second, long
+// enough to delay the start of a landing. So on blind ground, where such
+// rims are, b is the darkest of the working cells it is interpolated from
+// (refine): a pixel is body by darkness only if it is darker than a
+// shadow on any ground it may show. Elsewhere b stays interpolated, so a
+// body over bright ground beside a dark rim keeps its weight.
 func (s *segmenter) weigh(rho float64) float64 {
 	dark := s.dark[:0]
 	for _, q := range s.pix {

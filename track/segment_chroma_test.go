@@ -157,3 +157,153 @@ func TestSegmentBeeOnDarkCentre(t *testing.T) {
 		t.Errorf("darkness only already finds the bee (%d of %d frames, RMSE %.2f px): the scene does not test the colour cue", seen0, n, rmse0)
 	}
 }
+
+// settlingShadowClip draws a synthetic clip (invented for this test): a
+// banded bee (30 x 13 px) flies in from the left and settles astride the
+// rim of a dark flower centre (radius 14 px, about as dark as the bee,
+// against bright blue petals), its rear over the petals. Its shadow (a
+// soft ellipse 31 x 17 px that dims the ground by 30 % at the most) lies
+// down and to the right, offset by (0.12 + 0.55 h) bee lengths, where the
+// height h, 1 body length in flight, falls to 0 with a time constant of
+// 0.15 s after the bee touches down: the shadow slides under the bee,
+// across the rim, as it settles, while the bee does not move. It returns
+// the frames, the bee's true centre per frame (NaN when out of the
+// picture) and the frame at which the bee touches down.
+func settlingShadowClip() ([]gocv.Mat, [][2]float64, int) {
+	const (
+		w, h   = 480, 320
+		fps    = 30.0
+		fx, fy = 300, 160 // flower centre
+		bx     = 290      // where the bee settles: its front half on the centre
+		speed  = 5        // px per frame
+		L      = 30.0     // bee length, px
+		sitN   = 60       // frames sitting
+	)
+	ground := gocv.NewMatWithSizeFromScalar(gocv.NewScalar(72, 104, 96, 0), h, w, gocv.MatTypeCV8UC3)
+	defer ground.Close()
+	gocv.Circle(&ground, image.Pt(fx, fy), 40, color.RGBA{B: 212, G: 110, R: 82}, -1)
+	gocv.Circle(&ground, image.Pt(fx, fy), 14, color.RGBA{B: 48, G: 30, R: 34}, -1)
+	groundF := gocv.NewMat()
+	defer groundF.Close()
+	ground.ConvertTo(&groundF, gocv.MatTypeCV32FC3)
+	mask := gocv.NewMatWithSize(h, w, gocv.MatTypeCV32F)
+	defer mask.Close()
+	mask3 := gocv.NewMat()
+	defer mask3.Close()
+	lit := gocv.NewMat()
+	defer lit.Close()
+	rng := rand.New(rand.NewPCG(5, 2))
+	const margin = 32
+	noise := make([]int8, (w+margin)*(h+margin)*3)
+	for i := range noise {
+		noise[i] = int8(math.Round(math.Max(-100, math.Min(100, 2.5*rng.NormFloat64()))))
+	}
+	arrive := (bx + 20) / speed
+	alpha := 1 - math.Exp(-1/(fps*0.15))
+	hgt := 1.0
+	var frames []gocv.Mat
+	var truth [][2]float64
+	for i := 0; i < arrive+sitN; i++ {
+		x := bx
+		if i < arrive {
+			x = -20 + speed*i
+		} else {
+			hgt -= alpha * hgt
+		}
+		// Shadow: ground times 1 - depth * (soft ellipse mask).
+		off := (0.12 + 0.55*hgt) * L
+		depth := 0.3 / (1 + 0.6*hgt)
+		mask.SetTo(gocv.NewScalar(0, 0, 0, 0))
+		gocv.EllipseWithParams(&mask, image.Pt(int(math.Round(16*(float64(x)+0.5*off))), int(math.Round(16*(fy+0.85*off)))),
+			image.Pt(16*15, 16*8), 0, 0, 360, color.RGBA{B: 1}, -1, gocv.LineAA, 4)
+		gocv.GaussianBlur(mask, &mask, image.Pt(0, 0), 2, 2, gocv.BorderReplicate)
+		mask.MultiplyFloat(-float32(depth))
+		mask.AddFloat(1)
+		gocv.Merge([]gocv.Mat{mask, mask, mask}, &mask3)
+		gocv.Multiply(groundF, mask3, &lit)
+		f := gocv.NewMat()
+		lit.ConvertTo(&f, gocv.MatTypeCV8UC3)
+		gocv.Ellipse(&f, image.Pt(x, fy), image.Pt(15, 6), 0, 0, 360, color.RGBA{B: 24, G: 24, R: 30}, -1)
+		for _, b := range []int{x - 6, x + 6} {
+			gocv.Line(&f, image.Pt(b, fy-5), image.Pt(b, fy+5), color.RGBA{B: 40, G: 172, R: 214}, 3)
+		}
+		d, _ := f.DataPtrUint8()
+		ox, oy := rng.IntN(margin), rng.IntN(margin)
+		for y := 0; y < h; y++ {
+			row := d[y*w*3 : (y+1)*w*3]
+			nr := noise[((y+oy)*(w+margin)+ox)*3:]
+			for j := range row {
+				row[j] = uint8(min(255, max(0, int(row[j])+int(nr[j]))))
+			}
+		}
+		frames = append(frames, f)
+		if x < -15 {
+			truth = append(truth, [2]float64{math.NaN(), math.NaN()})
+		} else {
+			truth = append(truth, [2]float64{float64(x), fy})
+		}
+	}
+	return frames, truth, arrive
+}
+
+// TestSegmentSettlingShadowNoDrift: a bee that has stopped must not seem
+// to move while its shadow slides under it. The detected position of a
+// still bee astride the rim of a dark flower centre is compared between
+// the first frames after touch-down (the shadow still off to the side,
+// over the rim) and 1 to 2 s later (the shadow under the bee). A landing's
+// start is found from when the position stops moving, so an apparent
+// drift delays it. Target: at most 1 px, two thirds of the 1.5 px
+// position target of issue 3. Measured when written: 0.7 px (from rim
+// pixels just outside blind ground, where b stays interpolated); 2.7 px
+// before blind ground took the darkest background of a pixel's cells
+// (see weigh), when the shadow on the rim counted as body.
+func TestSegmentSettlingShadowNoDrift(t *testing.T) {
+	frames, truth, arrive := settlingShadowClip()
+	defer func() {
+		for _, f := range frames {
+			f.Close()
+		}
+	}()
+	s := Settings{PXPerMM: 30.0 / 14, BodyLengthMM: 14}
+	tr, err := NewTracker(s, VideoInfo{Path: "synthetic", WidthPX: 480, HeightPX: 320, FPS: 30})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer tr.Close()
+	var ex0, ey0, ex1, ey1 float64
+	var n0, n1 int
+	for i, f := range frames {
+		if err := tr.Step(FrameInfo{Index: i, TimeS: float64(i) / 30}, f); err != nil {
+			t.Fatal(err)
+		}
+		early := i >= arrive+1 && i < arrive+6
+		late := i >= arrive+30 && i < arrive+60
+		if !early && !late {
+			continue
+		}
+		best, bx, by := math.Inf(1), 0.0, 0.0
+		for _, d := range tr.Detections() {
+			if e := math.Hypot(d.XPX-truth[i][0], d.YPX-truth[i][1]); e < best {
+				best, bx, by = e, d.XPX-truth[i][0], d.YPX-truth[i][1]
+			}
+		}
+		if best > 0.5*30 {
+			t.Errorf("frame %d: no detection on the bee (nearest %.1f px)", i, best)
+			continue
+		}
+		if early {
+			ex0, ey0, n0 = ex0+bx, ey0+by, n0+1
+		} else {
+			ex1, ey1, n1 = ex1+bx, ey1+by, n1+1
+		}
+	}
+	if n0 == 0 || n1 == 0 {
+		t.Fatalf("bee not seen after touch-down (%d early, %d late frames)", n0, n1)
+	}
+	ex0, ey0, ex1, ey1 = ex0/float64(n0), ey0/float64(n0), ex1/float64(n1), ey1/float64(n1)
+	drift := math.Hypot(ex1-ex0, ey1-ey0)
+	t.Logf("error just after touch-down (%.2f, %.2f) px, 1-2 s later (%.2f, %.2f) px: apparent drift %.2f px", ex0, ey0, ex1, ey1, drift)
+	if drift > 1 {
+		t.Errorf("a still bee seems to move by %.2f px as its shadow slides under it, want <= 1 px", drift)
+	}
+}
