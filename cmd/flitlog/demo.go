@@ -157,6 +157,9 @@ func scorecard(dir string, truth *meadow.Truth) (string, error) {
 		vs := visits.ScoreAgainstTruth(truth.Landings, truth.Inspections, gotL, gotI)
 		fmt.Fprintf(tw, "landings and inspections\tvalue\ttarget (test scenes)\t\n")
 		fmt.Fprintf(tw, "landings: truth / found\t%d / %d\t\t\n", len(truth.Landings), len(gotL))
+		if vs.IgnoredTruthLandings > 0 || vs.IgnoredFoundLandings > 0 {
+			fmt.Fprintf(tw, "  not scored (cut short by the clip)\t%d / %d\t\t\n", vs.IgnoredTruthLandings, vs.IgnoredFoundLandings)
+		}
 		row(tw, "landing F1", vs.LandingF1, "%.3f", ">= 0.98")
 		row(tw, "onset error, median frames", vs.OnsetErrMedianFrames, "%.1f", "<= 1")
 		row(tw, "onset error, 95th pct frames", vs.OnsetErrP95Frames, "%.1f", "<= 3")
