@@ -99,8 +99,19 @@
 //
 //	w = clamp((rho b - I) / (rho b - I_body), 0, 1),
 //
-// I_body the 10th percentile of the blob's dark pixels: 1 inside the
-// body, 0 in a shadow, a share of the soft edge. The position is the
+// I_body the 10th percentile of I over the blob's pixels with I < rho b
+// (when there are none, the learned body grey: a running average of I_body
+// over clearly seen tracked bees; w = 0 while that is still unknown): 1
+// inside the body, 0 in a shadow, a share of the soft edge. On "blind"
+// ground, as dark as a bee (rho b - body grey < MinContrastGrey) within a
+// body length of a confirmed track's prediction, two things change. A
+// pixel whose colour differs from the cell's colour background also
+// counts as body: w = max(w, cw), cw = clamp((CD - t_c) / t_c, 0, 1), CD
+// its chromaticity distortion and t_c = max(ThresholdSigma sqrt(var_CD),
+// MinChromaGrey). And b is the darkest of the four working cells it is
+// interpolated from, not the interpolated value, so that a bee's shadow
+// on a dark rim (where interpolation makes the ground look brighter than
+// it is) does not count as body. The position is the
 // w-weighted (intensity-weighted) centroid; the ellipse has full axes 4
 // sqrt(lambda) of the weighted second-moment matrix (exact for a uniform
 // ellipse) and its major axis's angle counter-clockwise on screen from +x,

@@ -28,21 +28,34 @@ func randomGrey(w, h int, seed uint64) gocv.Mat {
 // TestAreaDownscale: the two-step reduction equals OpenCV's one-step area
 // reduction (gocv.Resize, InterpolationArea; the reference) to within one
 // grey level at every pixel, for the working scales of 720p and 1080p
-// (k = 4, 6) and odd factors that take the one-step path.
+// (k = 4, 6), also on a cropped region of a larger frame (as segment.go
+// passes when it stabilises), and uses the halving step (half is filled)
+// only where k is even and at least 4.
 func TestAreaDownscale(t *testing.T) {
-	for _, tc := range []struct{ w, h, k int }{
-		{1280, 720, 4}, {1920, 1080, 6}, {1920, 1080, 3}, {640, 480, 2}, {1280, 720, 5},
+	for _, tc := range []struct {
+		w, h, k  int
+		crop     int // border cut off all round before reducing, px
+		twoSteps bool
+	}{
+		{1280, 720, 4, 0, true}, {1920, 1080, 6, 0, true},
+		{1280, 720, 4, 8, true}, {1920, 1080, 6, 12, true},
+		{1920, 1080, 3, 0, false}, {640, 480, 2, 0, false}, {1280, 720, 5, 0, false},
 	} {
-		t.Run(fmt.Sprintf("%dx%d_k%d", tc.w, tc.h, tc.k), func(t *testing.T) {
-			src := randomGrey(tc.w, tc.h, uint64(tc.k))
+		t.Run(fmt.Sprintf("%dx%d_k%d_crop%d", tc.w, tc.h, tc.k, tc.crop), func(t *testing.T) {
+			full := randomGrey(tc.w, tc.h, uint64(tc.k))
+			defer full.Close()
+			src := full.Region(image.Rect(tc.crop, tc.crop, tc.w-tc.crop, tc.h-tc.crop))
 			defer src.Close()
 			want, got, half := gocv.NewMat(), gocv.NewMat(), gocv.NewMat()
 			defer want.Close()
 			defer got.Close()
 			defer half.Close()
-			size := image.Pt(tc.w/tc.k, tc.h/tc.k)
+			size := image.Pt(src.Cols()/tc.k, src.Rows()/tc.k)
 			gocv.Resize(src, &want, size, 0, 0, gocv.InterpolationArea)
 			areaDownscale(src, &got, &half, size)
+			if used := !half.Empty(); used != tc.twoSteps {
+				t.Errorf("halving step used: %v, want %v", used, tc.twoSteps)
+			}
 			if got.Cols() != size.X || got.Rows() != size.Y || got.Type() != gocv.MatTypeCV8U {
 				t.Fatalf("got %dx%d %v, want %dx%d 8U", got.Cols(), got.Rows(), got.Type(), size.X, size.Y)
 			}

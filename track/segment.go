@@ -227,6 +227,7 @@ func (s *segmenter) detect(frame gocv.Mat, index int, tS float64, zones, seeds [
 		frame = s.frameCopy
 	}
 	s.bgr, _ = frame.DataPtrUint8()
+	defer func() { s.bgr = nil }() // a view of the caller's frame: valid during detect only
 	gocv.CvtColor(frame, &s.greyFull, gocv.ColorBGRToGray)
 	if s.crop.Dx() == s.frameW && s.crop.Dy() == s.frameH {
 		areaDownscale(s.greyFull, &s.grey, &s.greyHalf, image.Pt(p.workW, p.workH))

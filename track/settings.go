@@ -70,9 +70,11 @@ type Settings struct {
 	// by more than ThresholdSigma standard deviations of that distortion,
 	// is bee: its coloured bands, a body of another hue. A shadow or a
 	// change of light changes brightness only. The per-pixel deviation is
-	// floored at MinChromaGrey / ThresholdSigma. Default 12 (about four
-	// times the colour noise of a phone camera); 200 switches the colour
-	// test practically off.
+	// floored at MinChromaGrey / ThresholdSigma. Default 12, set by hand
+	// and checked only on synthetic scenes (the bee on a dark flower
+	// centre of segment_chroma_test.go), not against the measured colour
+	// noise of a real camera; 200 switches the colour test practically
+	// off.
 	MinChromaGrey float64 `toml:"min_chroma_grey" json:"min_chroma_grey"`
 
 	// ActivityTauS is the time over which each pixel's frequency of being

@@ -37,8 +37,8 @@ type Tracker struct {
 
 // edgeSeen is a detection that touched the frame border.
 type edgeSeen struct {
-	x, y  float64
-	frame int
+	xPX, yPX float64
+	frame    int
 }
 
 // travelled records where a confirmed track started, where it was last,
@@ -180,7 +180,7 @@ func (t *Tracker) Step(fi FrameInfo, frame gocv.Mat) error {
 	}
 	t.dets = t.seg.detect(frame, fi.Index, fi.TimeS, t.zones, t.seeds)
 	asg := t.lk.Step(fi.Index, t.dets)
-	t.noteEdges(fi.Index)
+	t.noteEdges(fi.Index, asg)
 
 	t.zones = t.zones[:0]
 	for _, a := range asg {
@@ -256,10 +256,15 @@ func (t *Tracker) inherits(d Detection, frame int) bool {
 	return false
 }
 
+// edgeMemoryS is how long noteEdges keeps a detection at the border: a
+// few frames more than a track takes to be confirmed.
+const edgeMemoryS = 0.25
+
 // noteEdges remembers the detections of frame that touch the border and
-// forgets those older than a second.
-func (t *Tracker) noteEdges(frame int) {
-	maxAge := int(math.Ceil(t.info.FPS))
+// that no confirmed track took (asg), candidates for the first detection
+// of a track not yet confirmed, and forgets those older than edgeMemoryS.
+func (t *Tracker) noteEdges(frame int, asg []link.Assignment) {
+	maxAge := max(3, int(math.Ceil(edgeMemoryS*t.info.FPS)))
 	keep := t.edges[:0]
 	for _, e := range t.edges {
 		if frame-e.frame <= maxAge {
@@ -267,8 +272,12 @@ func (t *Tracker) noteEdges(frame int) {
 		}
 	}
 	t.edges = keep
-	for _, d := range t.dets {
-		if t.atEdge(d) {
+	taken := map[int]bool{}
+	for _, a := range asg {
+		taken[a.DetIndex] = true
+	}
+	for i, d := range t.dets {
+		if !taken[i] && t.atEdge(d) {
 			t.edges = append(t.edges, edgeSeen{d.XPX, d.YPX, frame})
 		}
 	}
@@ -276,9 +285,10 @@ func (t *Tracker) noteEdges(frame int) {
 
 // fromEdge reports whether detection d, the first of a newly confirmed
 // track, is a bee that flew into the picture: it touches the border, or
-// lies within reach of a detection at the border in the last second (2
-// body lengths plus 1 per frame since; a track is confirmed a few frames
-// after its first detection, by which time the bee has left the border).
+// lies within reach of an unclaimed detection at the border in the last
+// edgeMemoryS (2 body lengths plus 1 per frame since; a track is
+// confirmed a few frames after its first detection, by which time the
+// bee has left the border).
 func (t *Tracker) fromEdge(d Detection, frame int) bool {
 	if t.atEdge(d) {
 		return true
@@ -290,7 +300,7 @@ func (t *Tracker) fromEdge(d Detection, frame int) bool {
 			continue
 		}
 		r := 2*bl + float64(age)*bl
-		if dx, dy := d.XPX-e.x, d.YPX-e.y; dx*dx+dy*dy <= r*r {
+		if dx, dy := d.XPX-e.xPX, d.YPX-e.yPX; dx*dx+dy*dy <= r*r {
 			return true
 		}
 	}

@@ -1,5 +1,7 @@
 // Package link turns per-frame detections of bees into tracks: one path
-// per bee, one point per frame, in pixels of the video frame.
+// per bee, in pixels of the video frame, with one point per frame except
+// while the bee is out of the picture (the frame numbers then jump; see
+// Track).
 //
 // It is pure Go on gonum and needs no OpenCV, so that linking can be
 // tested on synthetic detections. Package track (segmentation) calls a
@@ -111,7 +113,8 @@
 //
 //   - Bar-Shalom Y, Li X R, Kirubarajan T (2001) Estimation with
 //     Applications to Tracking and Navigation. Wiley. (CV models Sec. 6.2-6.3,
-//     Joseph form Sec. 5.2.3, NIS test Sec. 5.4.2, alpha-beta Sec. 6.5.)
+//     Joseph form Sec. 5.2.3, NIS test Sec. 5.4.2, alpha-beta Sec. 6.5,
+//     IMM filter Sec. 11.6.)
 //   - Blom H A P, Bar-Shalom Y (1988) The interacting multiple model
 //     algorithm for systems with Markovian switching coefficients. IEEE
 //     Transactions on Automatic Control 33(8):780-783.

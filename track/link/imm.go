@@ -23,8 +23,9 @@ const (
 //     HoverSigmaPX per frame and svh = StillSpeedPXPerS.
 //
 // The model in force switches between frames as a Markov chain with
-// p_ij = P(model j at k+1 | model i at k); p_ij = dt/ModeSwitchS for
-// i != j. One cycle is
+// p_ij = P(model j at k+1 | model i at k); for i != j the caller
+// (Linker.predict) passes p_ij = min(0.5, dt/ModeSwitchS), dt the frame
+// interval in s, and p_ii = 1 - p_ij. One cycle is
 //
 //	mixing:   c_j = sum_i p_ij mu_i,  mu_i|j = p_ij mu_i / c_j
 //	          x0_j = sum_i mu_i|j x_i
@@ -68,9 +69,11 @@ func (m *imm) clone() *imm {
 }
 
 // predict runs the mixing and the model-conditioned predictions for a
-// step of dtS seconds; pSwitch is p_ij for i != j, hoverSigmaPX and
-// hoverVelSigma the hover model's noise (see imm).
-func (m *imm) predict(dtS, pSwitch, hoverSigmaPX, hoverVelSigma, takeoffSigma float64) {
+// step of dtS seconds; pSwitch is p_ij for i != j (in [0, 1]),
+// hoverSigmaPX (px per frame) and hoverVelSigmaPXPerS (px/s) the hover
+// model's position and velocity noise, and takeoffSigmaPXPerS (px/s) the
+// take-off velocity prior (see imm).
+func (m *imm) predict(dtS, pSwitch, hoverSigmaPX, hoverVelSigmaPXPerS, takeoffSigmaPXPerS float64) {
 	var p [numModels][numModels]float64
 	for i := range p {
 		for j := range p[i] {
@@ -95,10 +98,10 @@ func (m *imm) predict(dtS, pSwitch, hoverSigmaPX, hoverVelSigma, takeoffSigma fl
 		}
 		if j == modelFly {
 			// Hover -> fly: the hover model knows no velocity; a bee
-			// taking off has velocity N(0, takeoffSigma^2 I).
+			// taking off has velocity N(0, takeoffSigmaPXPerS^2 I).
 			hx := m.f[modelHover].x
 			hp := m.f[modelHover].p
-			t2 := takeoffSigma * takeoffSigma
+			t2 := takeoffSigmaPXPerS * takeoffSigmaPXPerS
 			aug := &Kalman{x: mat.NewVecDense(4, []float64{hx.AtVec(0), hx.AtVec(1), 0, 0}),
 				p: mat.NewSymDense(4, []float64{
 					hp.At(0, 0), hp.At(0, 1), 0, 0,
@@ -116,7 +119,7 @@ func (m *imm) predict(dtS, pSwitch, hoverSigmaPX, hoverVelSigma, takeoffSigma fl
 	}
 	m.f[modelFly].Predict(dtS)
 	h := m.f[modelHover]
-	s2, v2 := hoverSigmaPX*hoverSigmaPX, hoverVelSigma*hoverVelSigma
+	s2, v2 := hoverSigmaPX*hoverSigmaPX, hoverVelSigmaPXPerS*hoverVelSigmaPXPerS
 	// x = F_h x, P = F_h P F_h' + Q_h: the position block is kept, the
 	// velocity is forgotten.
 	h.x = mat.NewVecDense(4, []float64{h.x.AtVec(0), h.x.AtVec(1), 0, 0})

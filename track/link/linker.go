@@ -651,9 +651,11 @@ func (l *Linker) Predicted() []Prediction {
 // stationary tracks in mid-clip (see StationaryRadiusPX) and tracks
 // detected in less than MinDetectedFrac of their points, and returns the
 // resulting tracks with
-// IDs 1..n in order of their first frame. Runs of coasted points inside a
-// track are replaced by linear interpolation between the detections
-// around them. Finish may be called once; Step panics afterwards.
+// IDs 1..n in order of their first frame. A track is first cut wherever
+// it coasted longer than MaxCoastMovingS (the pieces go to gap closing,
+// which may join them again); shorter runs of coasted points are replaced
+// by linear interpolation between the detections around them. Finish may
+// be called once; Step panics afterwards.
 func (l *Linker) Finish() []Track {
 	if l.finished {
 		panic("link: Finish called twice")
@@ -701,7 +703,7 @@ func (l *Linker) Finish() []Track {
 		if midClip && stationary(f.points, l.s.StationaryRadiusPX) {
 			continue
 		}
-		if detectedFrac(f.points) < l.s.MinDetectedFrac {
+		if detectedFrac(f.points, l.s.frames(l.s.MaxCoastMovingS), l.s.StationaryRadiusPX) < l.s.MinDetectedFrac {
 			continue
 		}
 		keep = append(keep, f)
@@ -798,8 +800,32 @@ func observed(pts []Point) int {
 }
 
 // detectedFrac is the fraction of pts that are detections.
-func detectedFrac(pts []Point) float64 {
-	return float64(observed(pts)) / float64(len(pts))
+//
+// A run of unobserved points longer than maxRun frames whose two
+// neighbouring detections lie within sitPX of each other is left out of
+// the count: a bee that sat unseen (on ground as dark as itself) and was
+// joined across the gap where it sat. Counted, a long unseen sit would
+// drop the whole track, detected flight included.
+func detectedFrac(pts []Point, maxRun int, sitPX float64) float64 {
+	n, skip := observed(pts), 0
+	for i := 0; i < len(pts); {
+		if pts[i].Observed {
+			i++
+			continue
+		}
+		j := i
+		for j < len(pts) && !pts[j].Observed {
+			j++
+		}
+		if run := j - i; run > maxRun && i > 0 && j < len(pts) {
+			a, b := pts[i-1], pts[j]
+			if math.Hypot(a.XPX-b.XPX, a.YPX-b.YPX) <= sitPX {
+				skip += run
+			}
+		}
+		i = j
+	}
+	return float64(n) / float64(len(pts)-skip)
 }
 
 // median returns the median of v, reordering v.

@@ -1,6 +1,7 @@
 package link_test
 
 import (
+	"fmt"
 	"image"
 	"math"
 	"math/rand/v2"
@@ -646,5 +647,34 @@ func TestTakeoffBesideHover(t *testing.T) {
 	// (measured: 8 of 30 runs fail without the hover model).
 	if swapsOffAll == 0 {
 		t.Errorf("the constant-velocity filter alone kept every identity: the scene no longer tests the hover model")
+	}
+}
+
+// TestLongUnseenSit: a bee flies in, sits on a flower, is unseen for a
+// while in the middle of its sit (on ground as dark as itself), is seen
+// again and flies off. Its track is kept whole for unseen stretches up to
+// well beyond the detected time around them (the whole-track M-of-N rule
+// must not count the gap filled where it sat).
+func TestLongUnseenSit(t *testing.T) {
+	for _, hidden := range []int{0, 90, 180, 270} {
+		t.Run(fmt.Sprintf("hidden_%d_frames", hidden), func(t *testing.T) {
+			const sitX, sitY, seen = 320.0, 240.0, 30
+			truth := straight(1, 0, 30, sitX-29*8, sitY, 8*fps, 0)
+			sitF0, sitF1 := 30, 30+2*seen+hidden-1
+			for f := sitF0; f <= sitF1; f++ {
+				truth = append(truth, mot.Obs{Frame: f, ID: 1, XPX: sitX, YPX: sitY})
+			}
+			truth = append(truth, straight(1, sitF1+1, sitF1+31, sitX+8, sitY, 8*fps, 0)...)
+			frames := sitF1 + 31
+			hide := func(_, f int) bool { return f >= sitF0+seen && f < sitF0+seen+hidden }
+			tracks, _ := scene{truth: truth, frames: frames, sigmaPX: 0.5, drop: hide, seed: 7}.run(t)
+			if len(tracks) != 1 {
+				t.Fatalf("%d tracks, want 1", len(tracks))
+			}
+			tr := tracks[0]
+			if first, last := tr.Points[0].Frame, tr.Points[len(tr.Points)-1].Frame; first > 3 || last < frames-3 {
+				t.Errorf("track covers frames %d-%d of 0-%d", first, last, frames-1)
+			}
+		})
 	}
 }

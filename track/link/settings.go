@@ -182,13 +182,17 @@ type Settings struct {
 	// M-of-N deletion rule (Blackman & Popoli 1999, Sec. 6.2) applied to
 	// the whole track. A chain of coasted and gap-filled stretches
 	// between a few detections is what swaying grass makes; a bee's
-	// track is mostly detected. In [0, 1); default 0.4; a negative value
-	// turns the rule off.
+	// track is mostly detected. A gap longer than MaxCoastMovingS filled
+	// where the bee sat (detections on both sides within
+	// StationaryRadiusPX) does not count: a bee sitting unseen for long
+	// keeps its track. In (0, 1); 0 means the default 0.4; a negative
+	// value turns the rule off.
 	MinDetectedFrac float64 `toml:"min_detected_frac" json:"min_detected_frac"`
 
-	// MinObservedPoints: a track fragment with fewer detections than this
-	// is dropped as noise before gap closing, >= 1. Default
-	// max(MinHitsToConfirm, ceil(0.2 FPS)).
+	// MinObservedPoints: a track with fewer detections than this is
+	// dropped as noise before gap closing, and so is, after gap closing,
+	// a piece of a track cut at a long coast that nothing joined. >= 1.
+	// Default max(MinHitsToConfirm, ceil(0.2 FPS)).
 	MinObservedPoints int `toml:"min_observed_points" json:"min_observed_points"`
 
 	// EdgeMarginPX: gap closing takes a track end or start within this

@@ -13,6 +13,7 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"unicode"
 )
 
 // Landing is one landing of a landing table: a bee on a flower from StartS
@@ -64,7 +65,11 @@ func (e *ParseError) Error() string {
 		fmt.Fprintf(&b, ": row %d", e.Row)
 	}
 	if e.Field != "" {
-		fmt.Fprintf(&b, ", field %s", e.Field)
+		f := e.Field
+		if strings.ContainsFunc(f, func(r rune) bool { return !unicode.IsPrint(r) }) {
+			f = strconv.Quote(f) // a header cell with a line break stays on one line
+		}
+		fmt.Fprintf(&b, ", field %s", f)
 	}
 	fmt.Fprintf(&b, ": %v", e.Err)
 	return b.String()
