@@ -565,6 +565,7 @@ func (a *analyzer) flights(t *track, ls []Landing, is []Inspection) []Flight {
 		f.DistanceMM = math.Hypot(s1.XMM-s0.XMM, s1.YMM-s0.YMM)
 		for i := i0 + 1; i <= i1; i++ {
 			f.PathLengthMM += math.Hypot(t.smp[i].XMM-t.smp[i-1].XMM, t.smp[i].YMM-t.smp[i-1].YMM)
+			f.UnseenS += float64(t.smp[i].Frame-t.smp[i-1].Frame-1) / a.clip.FPS
 		}
 		f.MeanSpeedMMPerS = math.NaN()
 		if f.DurationS > 0 {

@@ -347,6 +347,26 @@ func TestSequenceAndFlights(t *testing.T) {
 		if math.Abs(f.MeanSpeedMMPerS-f.PathLengthMM/f.DurationS) > 1e-9 {
 			t.Errorf("flight %d: mean speed %v", i, f.MeanSpeedMMPerS)
 		}
+		if f.UnseenS != 0 {
+			t.Errorf("flight %d: unseen %v s, want 0 (every frame has a point)", i, f.UnseenS)
+		}
+	}
+	// The same bee out of the picture for 12 frames in mid-flight (the
+	// track has no points there): the second flight says so.
+	mid := (fs[1].StartFrame + fs[1].EndFrame) / 2
+	cut := tr
+	cut.Samples = nil
+	for _, smp := range tr.Samples {
+		if smp.Frame < mid || smp.Frame >= mid+12 {
+			cut.Samples = append(cut.Samples, smp)
+		}
+	}
+	resCut, err := Analyze([]kinematics.Result{cut}, fm, clip30, DefaultSettings())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fc := resCut.Flights; len(fc) != 2 || fc[0].UnseenS != 0 || math.Abs(fc[1].UnseenS-12.0/30) > 1e-12 {
+		t.Errorf("flights with 12 frames unseen in the second: %+v, want UnseenS 0 and 0.4 s", fc)
 	}
 	b := res.Summary.PerBee[0]
 	if b.Landings != 3 || b.FlowersVisited != 2 || math.Abs(b.RevisitFrac-1.0/3) > 1e-12 || b.InterVisitS.N != 2 {

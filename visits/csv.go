@@ -137,6 +137,7 @@ var flightColumns = []column[Flight]{
 	floatCol("path_length_mm", false, func(f *Flight) *float64 { return &f.PathLengthMM }),
 	floatCol("mean_speed_mm_s", false, func(f *Flight) *float64 { return &f.MeanSpeedMMPerS }),
 	intCol("inspections", false, func(f *Flight) *int { return &f.Inspections }),
+	floatCol("unseen_s", false, func(f *Flight) *float64 { return &f.UnseenS }),
 }
 
 func writeCSV[T any](w io.Writer, cols []column[T], rows []T) error {
@@ -266,7 +267,9 @@ func ReadInspectionsCSV(r io.Reader) ([]Inspection, error) {
 // start_s (take-off), end_s (next landing), duration_s (inter-visit
 // interval), start_frame, end_frame, from_kind, to_kind, from_index,
 // distance_mm (take-off point to landing point), flower_distance_mm
-// (between flower centres), path_length_mm, mean_speed_mm_s, inspections.
+// (between flower centres), path_length_mm, mean_speed_mm_s, inspections,
+// unseen_s (time out of the picture; path length and speed count a
+// straight line for it).
 func WriteFlightsCSV(w io.Writer, fs []Flight) error {
 	return writeCSV(w, flightColumns, fs)
 }

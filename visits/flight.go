@@ -29,8 +29,14 @@ type Flight struct {
 	FlowerDistanceMM float64
 	// PathLengthMM is the sum of the step lengths of the track from the
 	// last landed frame to the first landed frame of the next landing, mm.
-	// Across a gap in the track the straight line is counted.
+	// Across a gap in the track the straight line is counted (see
+	// UnseenS).
 	PathLengthMM    float64
 	MeanSpeedMMPerS float64 // PathLengthMM / DurationS
 	Inspections     int     // inspections this bee made during the flight
+	// UnseenS is the time of the flight for which the track has no
+	// point: the bee was out of the picture. Where it is above zero,
+	// PathLengthMM and MeanSpeedMMPerS count a straight line for that
+	// part and understate the flight.
+	UnseenS float64
 }
