@@ -79,19 +79,8 @@ func darkCentreClip(sitS float64) ([]gocv.Mat, [][2]float64) {
 			break
 		}
 		f := ground.Clone()
-		gocv.Ellipse(&f, image.Pt(x, cy), image.Pt(15, 6), 0, 0, 360, color.RGBA{B: 24, G: 24, R: 30}, -1)
-		for _, bx := range []int{x - 6, x + 6} {
-			gocv.Line(&f, image.Pt(bx, cy-5), image.Pt(bx, cy+5), color.RGBA{B: 40, G: 172, R: 214}, 3)
-		}
-		d, _ := f.DataPtrUint8()
-		ox, oy := rng.IntN(margin), rng.IntN(margin)
-		for y := 0; y < h; y++ {
-			row := d[y*w*3 : (y+1)*w*3]
-			nr := noise[((y+oy)*(w+margin)+ox)*3:]
-			for j := range row {
-				row[j] = uint8(min(255, max(0, int(row[j])+int(nr[j]))))
-			}
-		}
+		drawBandedBee(&f, x, cy)
+		addFrameNoise(f, noise, margin, rng)
 		frames = append(frames, f)
 		if x < -15 || x > w+15 {
 			truth = append(truth, [2]float64{math.NaN(), math.NaN()})
@@ -223,19 +212,8 @@ func settlingShadowClip() ([]gocv.Mat, [][2]float64, int) {
 		gocv.Multiply(groundF, mask3, &lit)
 		f := gocv.NewMat()
 		lit.ConvertTo(&f, gocv.MatTypeCV8UC3)
-		gocv.Ellipse(&f, image.Pt(x, fy), image.Pt(15, 6), 0, 0, 360, color.RGBA{B: 24, G: 24, R: 30}, -1)
-		for _, b := range []int{x - 6, x + 6} {
-			gocv.Line(&f, image.Pt(b, fy-5), image.Pt(b, fy+5), color.RGBA{B: 40, G: 172, R: 214}, 3)
-		}
-		d, _ := f.DataPtrUint8()
-		ox, oy := rng.IntN(margin), rng.IntN(margin)
-		for y := 0; y < h; y++ {
-			row := d[y*w*3 : (y+1)*w*3]
-			nr := noise[((y+oy)*(w+margin)+ox)*3:]
-			for j := range row {
-				row[j] = uint8(min(255, max(0, int(row[j])+int(nr[j]))))
-			}
-		}
+		drawBandedBee(&f, x, fy)
+		addFrameNoise(f, noise, margin, rng)
 		frames = append(frames, f)
 		if x < -15 {
 			truth = append(truth, [2]float64{math.NaN(), math.NaN()})
@@ -305,5 +283,30 @@ func TestSegmentSettlingShadowNoDrift(t *testing.T) {
 	t.Logf("error just after touch-down (%.2f, %.2f) px, 1-2 s later (%.2f, %.2f) px: apparent drift %.2f px", ex0, ey0, ex1, ey1, drift)
 	if drift > 1 {
 		t.Errorf("a still bee seems to move by %.2f px as its shadow slides under it, want <= 1 px", drift)
+	}
+}
+
+// drawBandedBee draws the test bee centred at (x, y): a dark body 30 px
+// long with two yellow bands.
+func drawBandedBee(f *gocv.Mat, x, y int) {
+	gocv.Ellipse(f, image.Pt(x, y), image.Pt(15, 6), 0, 0, 360, color.RGBA{B: 24, G: 24, R: 30}, -1)
+	for _, bx := range []int{x - 6, x + 6} {
+		gocv.Line(f, image.Pt(bx, y-5), image.Pt(bx, y+5), color.RGBA{B: 40, G: 172, R: 214}, 3)
+	}
+}
+
+// addFrameNoise adds to the 8-bit BGR frame f a window of noise (a field
+// margin px wider and taller than f, signed values per channel) at a
+// random offset, clamping to 0..255.
+func addFrameNoise(f gocv.Mat, noise []int8, margin int, rng *rand.Rand) {
+	w, h := f.Cols(), f.Rows()
+	d, _ := f.DataPtrUint8()
+	ox, oy := rng.IntN(margin), rng.IntN(margin)
+	for y := 0; y < h; y++ {
+		row := d[y*w*3 : (y+1)*w*3]
+		nr := noise[((y+oy)*(w+margin)+ox)*3:]
+		for j := range row {
+			row[j] = uint8(min(255, max(0, int(row[j])+int(nr[j]))))
+		}
 	}
 }

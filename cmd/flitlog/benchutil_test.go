@@ -609,7 +609,7 @@ type batchRow struct {
 func (r batchRow) BusyCoresW1() float64 { return r.CPU1S / r.Workers1S }
 
 // Ceiling is the largest speed-up of --workers N = nproc over --workers 1
-// when one worker already keeps U cores busy: nproc/U (Amdahl's bound with
+// when one worker already keeps U cores busy: nproc/U (a resource bound, with
 // the machine's cores as the only resource; it ignores memory bandwidth and
 // the serial end of a batch, so the true limit is lower).
 func (r batchRow) Ceiling() float64 { return float64(runtime.NumCPU()) / r.BusyCoresW1() }
