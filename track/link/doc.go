@@ -65,8 +65,12 @@
 // 1957) in a matching cascade (Wojke et al. 2017): first for the
 // confirmed tracks detected lately, then for lost confirmed tracks (see
 // ReconfirmAfterMisses), then for tentative tracks, each with the
-// detections left. Every detection left after that starts a tentative
-// track.
+// detections left. A detection left after the first round that lies in
+// the gate of a track of that round which took another detection is a
+// piece split off that bee's blob (a second bee so close would have
+// merged with it): it goes to no later round and starts no track, so a
+// lost track cannot latch onto the bee beside the bee's own track. Every
+// other detection left at the end starts a tentative track.
 //
 // # Track life
 //

@@ -51,7 +51,8 @@ type Prediction struct {
 // detections to confirmed tracks and then to tentative tracks with the
 // Hungarian method under a chi-square gate, updates matched tracks, lets
 // unmatched tracks coast, starts a tentative track at every detection left
-// over, confirms tentative tracks after MinHitsToConfirm detections and ends
+// over (except pieces split off a detected bee's blob: see besideFound),
+// confirms tentative tracks after MinHitsToConfirm detections and ends
 // tracks that coasted too long (see doc.go for the costs and rules).
 //
 // Track IDs given out by Step and Predicted are provisional: they are
@@ -191,14 +192,18 @@ func (l *Linker) Step(frame int, dets []Detection) []Assignment {
 	// followed (a fragment on swaying grass catching a bee that arrives
 	// to hover beside it).
 	matched := map[*ltrack]bool{}
+	beside := make([]bool, len(dets))
 	for gi, group := range [][]*ltrack{found, lost, tent} {
+		if gi == 1 {
+			beside = l.besideFound(found, dets, detTrack)
+		}
 		if gi == 2 {
 			// All confirmed tracks have chosen.
 			l.findMerges(conf, dets, detTrack, matched)
 		}
 		free := make([]int, 0, len(dets))
 		for j := range dets {
-			if detTrack[j] == nil {
+			if detTrack[j] == nil && !beside[j] {
 				free = append(free, j)
 			}
 		}
@@ -238,7 +243,7 @@ func (l *Linker) Step(frame int, dets []Detection) []Assignment {
 		}
 	}
 	for j, d := range dets {
-		if detTrack[j] == nil {
+		if detTrack[j] == nil && !beside[j] {
 			t := &ltrack{kf: NewKalman(l.kcfg, d.XPX, d.YPX), mergedWith: -1}
 			l.record(t, frame, d)
 			l.reliable(t)
@@ -249,7 +254,7 @@ func (l *Linker) Step(frame int, dets []Detection) []Assignment {
 	// Confirm, in detection order so that IDs are deterministic.
 	var out []Assignment
 	for j, t := range detTrack {
-		if t.mergedWith >= 0 {
+		if t == nil || t.mergedWith >= 0 {
 			continue
 		}
 		if t.id == 0 && t.hits >= l.s.MinHitsToConfirm {
@@ -270,6 +275,44 @@ func (l *Linker) Step(frame int, dets []Detection) []Assignment {
 	}
 	l.prune()
 	return out
+}
+
+// besideFound marks the detections that no track took in the first round
+// of the matching cascade and that lie inside the gate of a track of that
+// round (found: confirmed and detected lately) which did take a detection.
+// Such a detection is a piece of that track's bee split off its blob (a
+// sitting bee cut in two by a flower's dark centre or a grass blade in
+// front) or clutter touching it; a second bee that close would have
+// merged with it into one blob. Step keeps these detections from lost
+// and tentative tracks and starts no track at them: given to a lost
+// track they would keep it alive on the bee beside the bee's own track
+// (a fragment on swaying grass that coasted, held still, until the bee
+// landed within its gate), and at take-off either track could then leave
+// with the bee.
+func (l *Linker) besideFound(found []*ltrack, dets []Detection, detTrack []*ltrack) []bool {
+	out := make([]bool, len(dets))
+	for j, d := range dets {
+		if detTrack[j] != nil {
+			continue
+		}
+		for _, t := range found {
+			if l.tookOne(t, detTrack) && !math.IsInf(l.assocCost(t, d), 1) {
+				out[j] = true
+				break
+			}
+		}
+	}
+	return out
+}
+
+// tookOne reports whether some detection went to t.
+func (l *Linker) tookOne(t *ltrack, detTrack []*ltrack) bool {
+	for _, u := range detTrack {
+		if u == t {
+			return true
+		}
+	}
+	return false
 }
 
 // findMerges looks for two confirmed moving tracks whose bees have merged
