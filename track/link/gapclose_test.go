@@ -2,6 +2,7 @@ package link
 
 import (
 	"math"
+	"slices"
 	"testing"
 )
 
@@ -120,7 +121,7 @@ func TestCloseGaps(t *testing.T) {
 				t.Fatalf("got %d tracks %v, want %v", len(got), idsOf(got), tc.want)
 			}
 			for i := range got {
-				if !equalInts(got[i].ids, tc.want[i]) {
+				if !slices.Equal(got[i].ids, tc.want[i]) {
 					t.Errorf("track %d: ids %v, want %v", i, got[i].ids, tc.want[i])
 				}
 				if !tc.exit {
@@ -152,7 +153,7 @@ func TestCloseGapsOverlap(t *testing.T) {
 	}
 	b := line(2, 15, 40, 175, 200, 5, 0)
 	got := closeGaps([]fragment{a, b}, s, box640)
-	if len(got) != 1 || !equalInts(got[0].ids, []int{1, 2}) {
+	if len(got) != 1 || !slices.Equal(got[0].ids, []int{1, 2}) {
 		t.Fatalf("got %v, want one track [1 2]", idsOf(got))
 	}
 	pts := got[0].points
@@ -201,18 +202,6 @@ func idsOf(f []fragment) [][]int {
 		out = append(out, x.ids)
 	}
 	return out
-}
-
-func equalInts(a, b []int) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
-			return false
-		}
-	}
-	return true
 }
 
 // TestSplitLongCoasts: a track is cut where it coasted (missed its target)

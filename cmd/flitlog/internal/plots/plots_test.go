@@ -10,6 +10,7 @@ import (
 	"image/png"
 	"io/fs"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -269,24 +270,12 @@ func TestSelectTracks(t *testing.T) {
 		ids = append(ids, tracks[i].ID)
 	}
 	// Longest three are 1 (50), then 3 and 9 (30 each); shown in ID order.
-	if want := []int{1, 3, 9}; !equalInts(ids, want) {
+	if want := []int{1, 3, 9}; !slices.Equal(ids, want) {
 		t.Errorf("selected %v, want %v", ids, want)
 	}
 	if n := len(selectTracks(tracks, 12)); n != 5 {
 		t.Errorf("all tracks kept under the cap: got %d, want 5", n)
 	}
-}
-
-func equalInts(a, b []int) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
-			return false
-		}
-	}
-	return true
 }
 
 func TestOptionsErrors(t *testing.T) {
@@ -401,7 +390,7 @@ func TestManyTracksCapped(t *testing.T) {
 	for _, p := range panels {
 		ids = append(ids, p.id)
 	}
-	if want := []int{17, 18, 19, 20}; !equalInts(ids, want) {
+	if want := []int{17, 18, 19, 20}; !slices.Equal(ids, want) {
 		t.Errorf("panels for tracks %v, want the 4 longest %v", ids, want)
 	}
 	if got := omittedNote(4, 20); !strings.Contains(got, "4 of 20") {
