@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"image"
 	"math"
+	"slices"
 
 	"gocv.io/x/gocv"
 
@@ -272,12 +273,8 @@ func (t *Tracker) noteEdges(frame int, asg []link.Assignment) {
 		}
 	}
 	t.edges = keep
-	taken := map[int]bool{}
-	for _, a := range asg {
-		taken[a.DetIndex] = true
-	}
 	for i, d := range t.dets {
-		if !taken[i] && t.atEdge(d) {
+		if t.atEdge(d) && !slices.ContainsFunc(asg, func(a link.Assignment) bool { return a.DetIndex == i }) {
 			t.edges = append(t.edges, edgeSeen{d.XPX, d.YPX, frame})
 		}
 	}

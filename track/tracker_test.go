@@ -144,24 +144,19 @@ func synthInfo(w, h int) VideoInfo {
 // and returns the detections of that frame.
 func detectOne(t *testing.T, s Settings, sy *synth, bees []synthBee) []Detection {
 	t.Helper()
-	tr, err := NewTracker(s, synthInfo(sy.w, sy.h))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer tr.Close()
-	m := gocv.NewMat()
-	defer m.Close()
-	for i := 0; i < 15; i++ {
-		sy.frame(&m, nil)
-		if err := tr.Step(FrameInfo{Index: i, TimeS: float64(i) / 30}, m); err != nil {
-			t.Fatal(err)
+	var dets []Detection
+	show := func(i int) []synthBee {
+		if i < 15 {
+			return nil
 		}
+		return bees
 	}
-	sy.frame(&m, bees)
-	if err := tr.Step(FrameInfo{Index: 15, TimeS: 0.5}, m); err != nil {
-		t.Fatal(err)
-	}
-	return append([]Detection(nil), tr.Detections()...)
+	runSynth(t, s, sy, 16, show, func(i int, tr *Tracker) {
+		if i == 15 {
+			dets = append([]Detection(nil), tr.Detections()...)
+		}
+	})
+	return dets
 }
 
 // TestDetectionGeometry: centroid, axes and orientation of single bees

@@ -291,28 +291,24 @@ func (l *Linker) Step(frame int, dets []Detection) []Assignment {
 // with the bee.
 func (l *Linker) besideFound(found []*ltrack, dets []Detection, detTrack []*ltrack) []bool {
 	out := make([]bool, len(dets))
+	took := map[*ltrack]bool{}
+	for _, u := range detTrack {
+		if u != nil {
+			took[u] = true
+		}
+	}
 	for j, d := range dets {
 		if detTrack[j] != nil {
 			continue
 		}
 		for _, t := range found {
-			if l.tookOne(t, detTrack) && !math.IsInf(l.assocCost(t, d), 1) {
+			if took[t] && !math.IsInf(l.assocCost(t, d), 1) {
 				out[j] = true
 				break
 			}
 		}
 	}
 	return out
-}
-
-// tookOne reports whether some detection went to t.
-func (l *Linker) tookOne(t *ltrack, detTrack []*ltrack) bool {
-	for _, u := range detTrack {
-		if u == t {
-			return true
-		}
-	}
-	return false
 }
 
 // findMerges looks for two confirmed moving tracks whose bees have merged
